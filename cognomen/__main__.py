@@ -1,0 +1,3 @@
+from cognomen.server.cli import main
+
+raise SystemExit(main())

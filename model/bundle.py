@@ -1,0 +1,192 @@
+"""The model store: plain files, checksums, atomic promotion through a `current` pointer."""
+
+from __future__ import annotations
+
+import hashlib
+import json
+import os
+import shutil
+import tempfile
+import time
+from dataclasses import dataclass
+from pathlib import Path
+
+import numpy as np
+
+FORMAT_VERSION = 1
+MANIFEST = "manifest.json"
+CURRENT = "current"
+
+
+class ModelError(Exception):
+    """A model that is missing, incomplete or fails verification; the message says which."""
+
+
+@dataclass
+class Bundle:
+    """A verified model on disk: its manifest, JSON documents and memory-mapped arrays."""
+
+    directory: Path
+    manifest: dict
+    documents: dict[str, object]
+    arrays: dict[str, np.ndarray]
+
+    @property
+    def model_id(self) -> str:
+        return self.directory.name
+
+
+def _sha256(path: Path) -> str:
+    digest = hashlib.sha256()
+    with path.open("rb") as stream:
+        for block in iter(lambda: stream.read(1 << 20), b""):
+            digest.update(block)
+    return digest.hexdigest()
+
+
+def new_model_id() -> str:
+    return time.strftime("%Y%m%d-%H%M%S", time.gmtime()) + "-" + os.urandom(3).hex()
+
+
+def write_model(store: Path, manifest: dict, documents: dict[str, object],
+                arrays: dict[str, np.ndarray], model_id: str | None = None) -> Path:
+    """Write a complete model into store/models/<id>; nothing is visible there until it is whole."""
+    models = store / "models"
+    models.mkdir(parents=True, exist_ok=True)
+    model_id = model_id or new_model_id()
+    staging = Path(tempfile.mkdtemp(prefix=".incomplete-", dir=models))
+    try:
+        files: dict[str, str] = {}
+        for name, document in documents.items():
+            path = staging / f"{name}.json"
+            path.write_text(json.dumps(document, separators=(",", ":")), encoding="utf-8")
+            files[path.name] = _sha256(path)
+        shapes = {}
+        for name, array in arrays.items():
+            path = staging / f"{name}.npy"
+            np.save(path, np.ascontiguousarray(array), allow_pickle=False)
+            files[path.name] = _sha256(path)
+            shapes[path.name] = {"shape": list(array.shape), "dtype": str(array.dtype)}
+        full_manifest = dict(manifest, format_version=FORMAT_VERSION, model_id=model_id, files=files,
+                             arrays=shapes)
+        (staging / MANIFEST).write_text(json.dumps(full_manifest, indent=2), encoding="utf-8")
+        for path in staging.iterdir():
+            with path.open("rb") as stream:
+                os.fsync(stream.fileno())
+        target = models / model_id
+        os.rename(staging, target)
+        _fsync_directory(models)
+        return target
+    except BaseException:
+        shutil.rmtree(staging, ignore_errors=True)
+        raise
+
+
+def _fsync_directory(path: Path) -> None:
+    try:
+        descriptor = os.open(path, os.O_RDONLY)
+    except OSError:
+        return
+    try:
+        os.fsync(descriptor)
+    except OSError:
+        pass
+    finally:
+        os.close(descriptor)
+
+
+def promote(store: Path, model_id: str) -> None:
+    """Point `current` at a model, atomically: readers see the old id or the new one, never neither."""
+    load_model(store / "models" / model_id)  # refuse to point at anything that does not verify
+    pointer = store / CURRENT
+    temporary = store / f".{CURRENT}.{os.getpid()}.tmp"
+    temporary.write_text(model_id + "\n", encoding="utf-8")
+    with temporary.open("rb") as stream:
+        os.fsync(stream.fileno())
+    os.replace(temporary, pointer)
+    _fsync_directory(store)
+
+
+def current_model_id(store: Path) -> str | None:
+    try:
+        model_id = (store / CURRENT).read_text(encoding="utf-8").strip()
+    except (OSError, UnicodeDecodeError):
+        return None
+    return model_id or None
+
+
+def load_current(store: Path) -> Bundle:
+    """The model `current` names, verified; ModelError when there is none or it is damaged."""
+    model_id = current_model_id(store)
+    if model_id is None or "/" in model_id or model_id.startswith("."):
+        raise ModelError(f"no model found in {store}; run cognomen train")
+    return load_model(store / "models" / model_id)
+
+
+def load_model(directory: Path) -> Bundle:
+    """Load and verify one model directory: checksums, array shapes and types, no pickle."""
+    try:
+        manifest = json.loads((directory / MANIFEST).read_text(encoding="utf-8"))
+    except FileNotFoundError:
+        raise ModelError(f"no model found in {directory}; run cognomen train") from None
+    except (OSError, ValueError, UnicodeDecodeError) as error:
+        raise ModelError(f"model {directory.name} has an unreadable manifest ({error})") from None
+    if not isinstance(manifest, dict) or manifest.get("format_version") != FORMAT_VERSION:
+        raise ModelError(f"model {directory.name} has format {manifest.get('format_version')!r}; "
+                         f"this cognomen reads format {FORMAT_VERSION}: retrain with cognomen train")
+    files = manifest.get("files")
+    if not isinstance(files, dict):
+        raise ModelError(f"model {directory.name}: manifest lists no files")
+    documents: dict[str, object] = {}
+    arrays: dict[str, np.ndarray] = {}
+    for name, expected in files.items():
+        path = directory / name
+        if "/" in name or not path.is_file():
+            raise ModelError(f"model {directory.name} is missing {name}")
+        if _sha256(path) != expected:
+            raise ModelError(f"model {directory.name}: {name} does not match its checksum; refusing to load it")
+        if name.endswith(".json"):
+            documents[name[:-5]] = json.loads(path.read_text(encoding="utf-8"))
+        elif name.endswith(".npy"):
+            try:
+                array = np.load(path, mmap_mode="r", allow_pickle=False)
+            except (ValueError, OSError) as error:
+                raise ModelError(f"model {directory.name}: {name} is not a plain array ({error})") from None
+            declared = manifest.get("arrays", {}).get(name, {})
+            if list(array.shape) != declared.get("shape") or str(array.dtype) != declared.get("dtype"):
+                raise ModelError(f"model {directory.name}: {name} has shape {array.shape} {array.dtype}, "
+                                 f"the manifest says {declared}")
+            arrays[name[:-4]] = array
+    return Bundle(directory, manifest, documents, arrays)
+
+
+def list_models(store: Path) -> list[dict]:
+    """Manifests of every complete model in the store, newest first."""
+    models = store / "models"
+    found = []
+    if not models.is_dir():
+        return found
+    for directory in models.iterdir():
+        if directory.name.startswith(".") or not (directory / MANIFEST).is_file():
+            continue
+        try:
+            found.append(json.loads((directory / MANIFEST).read_text(encoding="utf-8")))
+        except (OSError, ValueError):
+            continue
+    found.sort(key=lambda m: (m.get("created", ""), m.get("model_id", "")), reverse=True)
+    return found
+
+
+def prune(store: Path, keep: int) -> list[str]:
+    """Delete all but the newest `keep` models, never the current one; returns the deleted ids."""
+    current = current_model_id(store)
+    deleted = []
+    for index, manifest in enumerate(list_models(store)):
+        model_id = manifest.get("model_id", "")
+        if index >= keep and model_id != current and model_id:
+            shutil.rmtree(store / "models" / model_id, ignore_errors=True)
+            deleted.append(model_id)
+    for leftover in (store / "models").glob(".incomplete-*") if (store / "models").is_dir() else []:
+        if time.time() - leftover.stat().st_mtime > 3600:
+            shutil.rmtree(leftover, ignore_errors=True)
+    return deleted

@@ -1,0 +1,86 @@
+"""Write a trained model as a bundle and turn a loaded bundle back into a scorer."""
+
+from __future__ import annotations
+
+import time
+from pathlib import Path
+
+import numpy as np
+
+from . import bundle as store_files
+from .scoring import Detector, NameTables, Scorer
+from .training import TrainedModel
+from .vocabulary import Vocabulary
+
+_TABLE_ARRAYS = ("input_vectors", "output_vectors", "name_counts", "name_vocab_rows", "feature_keys",
+                 "feature_totals", "context_indptr", "context_columns", "context_counts", "evidence_rows",
+                 "evidence_path_ids", "evidence_lines", "evidence_vectors")
+
+
+def save(store: Path, trained: TrainedModel, manifest: dict) -> Path:
+    """Write a complete model into the store (not yet promoted); returns its directory."""
+    tables = trained.tables
+    documents = {
+        "vocabulary": trained.vocabulary.to_json(),
+        "names": {"names": tables.names, "languages": tables.name_languages, "styles": tables.styles,
+                  "evidence_paths": tables.evidence_paths, "total_occurrences": tables.total_occurrences},
+    }
+    if trained.detector is not None:
+        documents["detector"] = trained.detector.to_json()
+    arrays = {name: getattr(tables, name) for name in _TABLE_ARRAYS}
+    full = dict(manifest, created=time.strftime("%Y-%m-%dT%H:%M:%SZ", time.gmtime()),
+                threshold=trained.threshold, quality=trained.quality, counts=trained.counts,
+                seconds=trained.seconds)
+    return store_files.write_model(store, full, documents, arrays)
+
+
+def scorer_from_bundle(loaded: store_files.Bundle) -> Scorer:
+    """A scorer over a verified bundle; ModelError when its contents disagree with each other."""
+    try:
+        vocabulary = Vocabulary.from_json(loaded.documents["vocabulary"])
+        names = loaded.documents["names"]
+        arrays = loaded.arrays
+        tables = NameTables(
+            vocabulary=vocabulary,
+            names=list(names["names"]),
+            name_languages=list(names["languages"]),
+            styles=dict(names["styles"]),
+            evidence_paths=list(names["evidence_paths"]),
+            total_occurrences=float(names["total_occurrences"]),
+            **{name: arrays[name] for name in _TABLE_ARRAYS},
+        )
+        _check_shapes(tables)
+        detector = Detector.from_json(loaded.documents["detector"]) if "detector" in loaded.documents else None
+        threshold = float(loaded.manifest.get("threshold", 0.0))
+    except (KeyError, TypeError, ValueError) as error:
+        raise store_files.ModelError(f"model {loaded.model_id} is inconsistent ({error}); retrain it") from None
+    return Scorer(tables, detector, threshold)
+
+
+def _check_shapes(tables: NameTables) -> None:
+    rows, dimensions = len(tables.vocabulary), tables.input_vectors.shape[1]
+    names = len(tables.names)
+    expectations = {
+        "input_vectors": (tables.input_vectors.shape, (rows, dimensions)),
+        "output_vectors": (tables.output_vectors.shape, (rows, dimensions)),
+        "name_counts": (tables.name_counts.shape, (names,)),
+        "name_vocab_rows": (tables.name_vocab_rows.shape, (names,)),
+        "context_indptr": (tables.context_indptr.shape, (len(tables.feature_keys) + 1,)),
+        "context_counts": (tables.context_counts.shape, tables.context_columns.shape),
+        "evidence_vectors": (tables.evidence_vectors.shape, (len(tables.evidence_rows), dimensions)),
+    }
+    for name, (actual, expected) in expectations.items():
+        if tuple(actual) != tuple(expected):
+            raise ValueError(f"{name} has shape {tuple(actual)}, expected {tuple(expected)}")
+    if names != len(tables.name_languages):
+        raise ValueError("names and their languages disagree in length")
+    if len(tables.name_vocab_rows) and (tables.name_vocab_rows.max() >= rows or tables.name_vocab_rows.min() < 0):
+        raise ValueError("a name points outside the vocabulary")
+    if len(tables.context_columns) and tables.context_columns.max() >= names:
+        raise ValueError("context counts point outside the names")
+
+
+def load_scorer(store: Path) -> tuple[Scorer, store_files.Bundle]:
+    """The current model of a store as a scorer; ModelError when there is none or it is refused."""
+    loaded = store_files.load_current(store)
+    return scorer_from_bundle(loaded), loaded

@@ -1,0 +1,431 @@
+"""Context vectors, candidate names, scores, oddness and evidence for each variable."""
+
+from __future__ import annotations
+
+import keyword
+import math
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from .corpus import SourceFile
+from .scopes import PYTHON_BUILTINS, PYTHON_KEYWORDS, RECEIVER_NAMES, Variable
+from .tokens import NAME, case_style, fits_style, split_identifier
+from .vocabulary import PAD_TOKEN, SELF_TOKEN, Vocabulary
+
+WINDOW = 3  # neighbours each side for the position-specific counts
+EMBEDDING_WINDOW = 5  # neighbours each side for the CBOW context vector
+LEXICAL_WINDOW = 10  # neighbours each side whose sub-tokens count as lexical context
+MAX_OCCURRENCES = 24  # occurrences beyond this add little and cost time
+SMOOTHING = 8.0  # Dirichlet prior strength for the position-specific counts
+STOP_SUBTOKENS = frozenset({"self", "cls", "this"})
+IGNORED_NAMES = RECEIVER_NAMES | {"_", "__"}
+
+_RESERVED_WORDS = {
+    "python": PYTHON_KEYWORDS | PYTHON_BUILTINS,
+    "javascript": frozenset("""break case catch class const continue debugger default delete do else export
+        extends finally for function if import in instanceof new return super switch this throw try typeof var
+        void while with yield let static enum await implements package protected interface private public
+        null true false undefined NaN Infinity arguments eval""".split()),
+    "go": frozenset("""break case chan const continue default defer else fallthrough for func go goto if
+        import interface map package range return select struct switch type var true false nil iota append cap
+        close complex copy delete imag len make new panic print println real recover string int error bool
+        byte rune float64 float32 int64 int32 uint any""".split()),
+    "java": frozenset("""abstract assert boolean break byte case catch char class const continue default do
+        double else enum extends final finally float for goto if implements import instanceof int interface
+        long native new package private protected public return short static strictfp super switch
+        synchronized this throw throws transient try void volatile while var record yield true false null""".split()),
+    "rust": frozenset("""as break const continue crate else enum extern false fn for if impl in let loop match
+        mod move mut pub ref return self Self static struct super trait true type unsafe use where while async
+        await dyn""".split()),
+    "c": frozenset("""auto break case char const continue default do double else enum extern float for goto
+        if inline int long register restrict return short signed sizeof static struct switch typedef union
+        unsigned void volatile while bool true false NULL""".split()),
+}
+_RESERVED_WORDS["typescript"] = _RESERVED_WORDS["javascript"] | frozenset(
+    "any boolean number string symbol never unknown object type namespace declare readonly keyof as is".split())
+_RESERVED_WORDS["cpp"] = _RESERVED_WORDS["c"] | frozenset(
+    "class namespace template typename this new delete public private protected virtual nullptr auto".split())
+_RESERVED_WORDS["csharp"] = _RESERVED_WORDS["java"] | frozenset(
+    "string object decimal bool base checked fixed internal lock out override params readonly ref sealed "
+    "stackalloc unchecked unsafe using virtual event delegate operator implicit explicit".split())
+
+
+def reserved_words(language: str) -> frozenset[str]:
+    """Keywords and builtins of a language: never suggested as a name."""
+    return _RESERVED_WORDS.get(language, frozenset(keyword.kwlist))
+
+
+@dataclass
+class NameTables:
+    """What scoring needs from a trained model, as plain arrays and lists."""
+
+    vocabulary: Vocabulary
+    input_vectors: np.ndarray  # (V, d) float32
+    output_vectors: np.ndarray  # (V, d) float32
+    names: list[str]  # candidate rows: local names the team uses
+    name_languages: list[str]
+    name_counts: np.ndarray  # (C,) float32
+    name_vocab_rows: np.ndarray  # (C,) int32
+    styles: dict[str, str]  # dominant case style of local names per language
+    feature_keys: np.ndarray  # (F,) int64, sorted: offset slot * V + token id
+    feature_totals: np.ndarray  # (F,) float32
+    context_indptr: np.ndarray  # (F + 1,) int64
+    context_columns: np.ndarray  # (nnz,) int32 candidate rows
+    context_counts: np.ndarray  # (nnz,) float32
+    evidence_rows: np.ndarray  # (E,) int32 candidate row, sorted
+    evidence_paths: list[str]
+    evidence_path_ids: np.ndarray  # (E,) int32
+    evidence_lines: np.ndarray  # (E,) int32
+    evidence_vectors: np.ndarray  # (E, d) float32
+    total_occurrences: float = 1.0
+
+    def __post_init__(self) -> None:
+        self.row_by_name = {(lang, name): row for row, (lang, name) in enumerate(zip(self.name_languages, self.names))}
+        self.rows_by_language: dict[str, np.ndarray] = {}
+        languages = np.array(self.name_languages, dtype=object)
+        for language in set(self.name_languages):
+            self.rows_by_language[language] = np.flatnonzero(languages == language).astype(np.int64)
+        self.name_subtokens = [frozenset(split_identifier(n)) - STOP_SUBTOKENS for n in self.names]
+        self.evidence_start = np.searchsorted(self.evidence_rows, np.arange(len(self.names) + 1))
+        self.log_counts = np.log(self.name_counts.astype(np.float64) + 1.0)
+        self.log_count_smoothed = np.log(self.name_counts.astype(np.float64) + SMOOTHING)
+        self.self_id = self.vocabulary.id(SELF_TOKEN)
+        self.pad_id = self.vocabulary.id(PAD_TOKEN)
+        self._output_by_language = {lang: np.asarray(self.output_vectors[self.name_vocab_rows[rows]], dtype=np.float32)
+                                    for lang, rows in self.rows_by_language.items()}
+
+
+@dataclass
+class Suggestion:
+    name: str
+    score: float
+    evidence: list[tuple[str, int]] = field(default_factory=list)
+
+
+@dataclass
+class Ranking:
+    """Scores of every candidate of the variable's language, computed once per variable."""
+
+    language: str
+    rows: np.ndarray  # candidate rows of this language
+    count_scores: np.ndarray
+    embedding_scores: np.ndarray
+    lexical_scores: np.ndarray
+    combined: np.ndarray
+    context_vector: np.ndarray
+    context_subtokens: frozenset[str]
+    occurrences: int
+
+
+@dataclass
+class Judgement:
+    """How well a variable's name fits: oddness (None when the name cannot be judged) and suggestions."""
+
+    variable: Variable
+    oddness: float | None
+    suggestions: list[Suggestion]
+    features: np.ndarray | None = None
+
+
+# --- contexts ---------------------------------------------------------------------------
+
+
+def token_ids(source: SourceFile, vocabulary: Vocabulary) -> np.ndarray:
+    return np.fromiter((vocabulary.index.get(t.text, 0) for t in source.tokens), dtype=np.int64,
+                       count=len(source.tokens))
+
+
+def occurrence_contexts(ids: np.ndarray, occurrences: list[int], window: int, self_id: int,
+                        pad_id: int) -> np.ndarray:
+    """Token ids at offsets -window..-1, 1..window of each occurrence; the variable itself masked."""
+    positions = np.asarray(occurrences[:MAX_OCCURRENCES], dtype=np.int64)
+    offsets = np.concatenate([np.arange(-window, 0), np.arange(1, window + 1)])
+    where = positions[:, None] + offsets[None, :]
+    inside = (where >= 0) & (where < len(ids))
+    context = np.where(inside, ids[np.clip(where, 0, max(len(ids) - 1, 0))], pad_id)
+    own = np.isin(where, np.asarray(occurrences, dtype=np.int64))
+    context[own] = self_id
+    return context
+
+
+def lexical_context(source: SourceFile, variable: Variable) -> frozenset[str]:
+    """Sub-tokens of other identifiers near the variable's uses, and of its function's name."""
+    own = set(variable.occurrences)
+    tokens = source.tokens
+    found: set[str] = set(split_identifier(variable.function)) if variable.function else set()
+    for position in variable.occurrences[:MAX_OCCURRENCES]:
+        for j in range(max(0, position - LEXICAL_WINDOW), min(len(tokens), position + LEXICAL_WINDOW + 1)):
+            if j not in own and tokens[j].kind == NAME:
+                found.update(split_identifier(tokens[j].text))
+    return frozenset(found - STOP_SUBTOKENS)
+
+
+def lexical_fit(subtokens: frozenset[str], context: frozenset[str]) -> float:
+    """Share of a name's sub-tokens that appear among its context's sub-tokens."""
+    if not subtokens:
+        return 0.0
+    return len(subtokens & context) / len(subtokens)
+
+
+# --- scoring ----------------------------------------------------------------------------
+
+
+@dataclass
+class Weights:
+    """How the three scores combine into one ranking."""
+
+    embedding: float = 1.0
+    lexical: float = 3.0
+    counts: float = 1.0
+
+
+def rank_candidates(tables: NameTables, source: SourceFile, variable: Variable, ids: np.ndarray,
+                    weights: Weights | None = None) -> Ranking | None:
+    """Score every candidate name of the variable's language against its contexts."""
+    weights = weights or Weights()
+    rows = tables.rows_by_language.get(source.language)
+    if rows is None or len(rows) == 0:
+        return None
+    count_scores = _count_scores(tables, ids, variable, rows)
+    context_vector = _context_vector(tables, ids, variable)
+    logits = tables._output_by_language[source.language] @ context_vector
+    embedding_scores = logits - _logsumexp(logits)
+    subtokens = lexical_context(source, variable)
+    lexical_scores = np.fromiter((lexical_fit(tables.name_subtokens[r], subtokens) for r in rows),
+                                 dtype=np.float64, count=len(rows))
+    combined = (weights.counts * count_scores + weights.embedding * embedding_scores
+                + weights.lexical * lexical_scores)
+    return Ranking(source.language, rows, count_scores, embedding_scores, lexical_scores, combined,
+                   context_vector, subtokens, min(len(variable.occurrences), MAX_OCCURRENCES))
+
+
+def _count_scores(tables: NameTables, ids: np.ndarray, variable: Variable, rows: np.ndarray) -> np.ndarray:
+    contexts = occurrence_contexts(ids, variable.occurrences, WINDOW, tables.self_id, tables.pad_id)
+    slots = np.arange(contexts.shape[1], dtype=np.int64)
+    keys = (slots[None, :] * len(tables.vocabulary) + contexts).ravel()
+    found = np.searchsorted(tables.feature_keys, keys)
+    found = np.clip(found, 0, max(len(tables.feature_keys) - 1, 0))
+    valid = found[tables.feature_keys[found] == keys] if len(tables.feature_keys) else np.empty(0, np.int64)
+    accumulated = np.zeros(len(tables.names), dtype=np.float64)
+    for feature in valid:
+        start, end = tables.context_indptr[feature], tables.context_indptr[feature + 1]
+        prior = SMOOTHING * tables.feature_totals[feature] / tables.total_occurrences
+        columns = tables.context_columns[start:end]
+        accumulated[columns] += np.log1p(tables.context_counts[start:end] / prior)
+    feature_count = keys.size
+    occurrences = contexts.shape[0]
+    scores = tables.log_counts + (accumulated - feature_count * tables.log_count_smoothed) / occurrences
+    return scores[rows]
+
+
+def _context_vector(tables: NameTables, ids: np.ndarray, variable: Variable) -> np.ndarray:
+    contexts = occurrence_contexts(ids, variable.occurrences, EMBEDDING_WINDOW, tables.self_id, tables.pad_id)
+    distance = np.abs(np.concatenate([np.arange(-EMBEDDING_WINDOW, 0), np.arange(1, EMBEDDING_WINDOW + 1)]))
+    weight = np.broadcast_to((EMBEDDING_WINDOW + 1 - distance) / EMBEDDING_WINDOW, contexts.shape).copy()
+    weight[(contexts == tables.self_id) | (contexts == tables.pad_id) | (contexts == 0)] = 0.0
+    total = weight.sum()
+    if total <= 0:
+        return np.zeros(tables.input_vectors.shape[1], dtype=np.float32)
+    vectors = np.asarray(tables.input_vectors[contexts.ravel()], dtype=np.float32)
+    return (weight.ravel()[:, None] * vectors).sum(axis=0).astype(np.float32) / np.float32(total)
+
+
+def _logsumexp(values: np.ndarray) -> float:
+    top = float(values.max())
+    return top + math.log(float(np.exp(values - top).sum()))
+
+
+def allowed_mask(tables: NameTables, ranking: Ranking, bound_names: frozenset[str], current: str) -> np.ndarray:
+    """Candidates that may replace the current name: not bound nearby, not reserved, in the team's style."""
+    reserved = reserved_words(ranking.language)
+    style = tables.styles.get(ranking.language, "snake")
+    names = tables.names
+    return np.fromiter(
+        (names[r] != current and names[r] not in bound_names and names[r] not in reserved
+         and names[r] not in IGNORED_NAMES and fits_style(names[r], style) for r in ranking.rows),
+        dtype=bool, count=len(ranking.rows))
+
+
+@dataclass
+class NameFit:
+    """Scores of one name in a ranking; known is False when judged by sub-tokens only."""
+
+    count: float
+    embedding: float
+    lexical: float
+    combined: float
+    rank: int
+    known: bool
+
+
+def name_fit(tables: NameTables, ranking: Ranking, name: str, weights: Weights | None = None) -> NameFit | None:
+    """Where a name stands among the candidates; unseen names are judged by their sub-tokens."""
+    weights = weights or Weights()
+    row = tables.row_by_name.get((ranking.language, name))
+    lexical = lexical_fit(frozenset(split_identifier(name)) - STOP_SUBTOKENS, ranking.context_subtokens)
+    position = {int(r): i for i, r in enumerate(ranking.rows)} if row is None else None
+    if row is not None:
+        index = int(np.searchsorted(ranking.rows, row))
+        indices = [index]
+        known = True
+    else:
+        parts = [tables.row_by_name.get((ranking.language, part)) for part in split_identifier(name)]
+        indices = [position[p] for p in parts if p is not None and p in position]
+        known = False
+        if not indices:
+            return None
+    count = float(np.mean(ranking.count_scores[indices]))
+    embedding = float(np.mean(ranking.embedding_scores[indices]))
+    combined = weights.counts * count + weights.embedding * embedding + weights.lexical * lexical
+    rank = int((ranking.combined > combined).sum())
+    return NameFit(count, embedding, lexical, combined, rank, known)
+
+
+FEATURE_NAMES = (
+    "combined_gap", "count_gap", "embedding_gap", "lexical_current", "lexical_best", "log_rank",
+    "log_name_count", "known", "log_occurrences", "is_parameter", "embedding_current", "count_current_gap_top1",
+)
+
+
+def detection_features(tables: NameTables, ranking: Ranking, allowed: np.ndarray, fit: NameFit,
+                       name: str, variable: Variable) -> np.ndarray:
+    """The detector's inputs for one variable under one name."""
+    combined = np.where(allowed, ranking.combined, -np.inf)
+    best = int(np.argmax(combined))
+    row = tables.row_by_name.get((ranking.language, name))
+    name_count = float(tables.name_counts[row]) if row is not None else 0.0
+    return np.array([
+        float(combined[best]) - fit.combined,
+        float(np.max(np.where(allowed, ranking.count_scores, -np.inf))) - fit.count,
+        float(np.max(np.where(allowed, ranking.embedding_scores, -np.inf))) - fit.embedding,
+        fit.lexical,
+        float(ranking.lexical_scores[best]),
+        math.log1p(fit.rank),
+        math.log1p(name_count),
+        1.0 if fit.known else 0.0,
+        math.log(ranking.occurrences),
+        1.0 if variable.kind == "parameter" else 0.0,
+        fit.embedding,
+        float(ranking.count_scores[best]) - fit.count,
+    ], dtype=np.float64)
+
+
+@dataclass
+class Detector:
+    """Logistic regression over detection features: its logit is the oddness."""
+
+    mean: np.ndarray
+    scale: np.ndarray
+    coefficients: np.ndarray
+    intercept: float
+
+    def oddness(self, features: np.ndarray) -> np.ndarray:
+        standard = (features - self.mean) / self.scale
+        return standard @ self.coefficients + self.intercept
+
+    def to_json(self) -> dict:
+        return {"features": list(FEATURE_NAMES), "mean": self.mean.tolist(), "scale": self.scale.tolist(),
+                "coefficients": self.coefficients.tolist(), "intercept": self.intercept}
+
+    @classmethod
+    def from_json(cls, data: dict) -> "Detector":
+        if data.get("features") != list(FEATURE_NAMES):
+            raise ValueError("the detector was trained on other features")
+        return cls(np.array(data["mean"]), np.array(data["scale"]), np.array(data["coefficients"]),
+                   float(data["intercept"]))
+
+
+def fit_detector(features: np.ndarray, labels: np.ndarray, l2: float = 1.0, iterations: int = 50) -> Detector:
+    """Fit logistic regression by Newton's method with an L2 penalty."""
+    mean = features.mean(axis=0)
+    scale = features.std(axis=0)
+    scale[scale < 1e-9] = 1.0
+    x = np.hstack([(features - mean) / scale, np.ones((len(features), 1))])
+    w = np.zeros(x.shape[1])
+    penalty = np.full(x.shape[1], l2)
+    penalty[-1] = 0.0
+    for _ in range(iterations):
+        p = 1.0 / (1.0 + np.exp(-np.clip(x @ w, -30, 30)))
+        gradient = x.T @ (p - labels) + penalty * w
+        hessian = (x * (p * (1 - p))[:, None]).T @ x + np.diag(penalty + 1e-9)
+        step = np.linalg.solve(hessian, gradient)
+        w -= step
+        if np.abs(step).max() < 1e-7:
+            break
+    return Detector(mean, scale, w[:-1], float(w[-1]))
+
+
+# --- the per-file judgement -------------------------------------------------------------
+
+
+class Scorer:
+    """A loaded model's scoring: judge every variable of a file, suggest names for one."""
+
+    def __init__(self, tables: NameTables, detector: Detector | None, threshold: float,
+                 weights: Weights | None = None):
+        self.tables = tables
+        self.detector = detector
+        self.threshold = threshold
+        self.weights = weights or Weights()
+
+    def judge(self, source: SourceFile, variable: Variable, ids: np.ndarray | None = None,
+              limit: int = 5) -> Judgement:
+        if ids is None:
+            ids = token_ids(source, self.tables.vocabulary)
+        if variable.name in IGNORED_NAMES:
+            return Judgement(variable, None, [])
+        ranking = rank_candidates(self.tables, source, variable, ids, self.weights)
+        if ranking is None:
+            return Judgement(variable, None, [])
+        allowed = allowed_mask(self.tables, ranking, variable.bound_names, variable.name)
+        suggestions = self.suggestions(ranking, allowed, limit)
+        fit = name_fit(self.tables, ranking, variable.name, self.weights)
+        if fit is None:
+            return Judgement(variable, None, suggestions)
+        features = detection_features(self.tables, ranking, allowed, fit, variable.name, variable)
+        if self.detector is not None:
+            oddness = float(self.detector.oddness(features[None, :])[0])
+        else:
+            oddness = float(features[0])
+        return Judgement(variable, oddness, suggestions, features)
+
+    def suggestions(self, ranking: Ranking, allowed: np.ndarray, limit: int) -> list[Suggestion]:
+        combined = np.where(allowed, ranking.combined, -np.inf)
+        if not allowed.any():
+            return []
+        top = np.argsort(-combined, kind="stable")[:limit]
+        top = [i for i in top if np.isfinite(combined[i])]
+        shifted = combined[top] - _logsumexp(combined[np.isfinite(combined)])
+        return [Suggestion(self.tables.names[ranking.rows[i]], float(math.exp(score)),
+                           self.evidence(int(ranking.rows[i]), ranking.context_vector))
+                for i, score in zip(top, shifted)]
+
+    def evidence(self, row: int, context_vector: np.ndarray, limit: int = 3) -> list[tuple[str, int]]:
+        """Places in the team's code where a name is used in the most similar contexts."""
+        tables = self.tables
+        start, end = int(tables.evidence_start[row]), int(tables.evidence_start[row + 1])
+        if start == end:
+            return []
+        similarity = np.asarray(tables.evidence_vectors[start:end]) @ context_vector
+        order = np.argsort(-similarity, kind="stable")[:limit]
+        return [(tables.evidence_paths[int(tables.evidence_path_ids[start + i])], int(tables.evidence_lines[start + i]))
+                for i in order]
+
+    def judge_file(self, source: SourceFile) -> list[Judgement]:
+        ids = token_ids(source, self.tables.vocabulary)
+        return [self.judge(source, variable, ids) for variable in source.variables]
+
+    def is_flagged(self, judgement: Judgement, threshold: float | None = None) -> bool:
+        limit = self.threshold if threshold is None else threshold
+        return judgement.oddness is not None and judgement.oddness > limit and bool(judgement.suggestions)
+
+
+def dominant_style(names: dict[str, int]) -> str:
+    """The case style most local names are written in (single lower-case words count for none)."""
+    votes: dict[str, int] = {}
+    for name, count in names.items():
+        style = case_style(name)
+        if style in ("snake", "camel", "pascal", "screaming"):
+            votes[style] = votes.get(style, 0) + count
+    return max(votes, key=votes.get) if votes else "snake"

@@ -1,0 +1,211 @@
+"""Source text to normalised tokens: literals abstracted, comments dropped, names split."""
+
+from __future__ import annotations
+
+import functools
+import re
+from dataclasses import dataclass
+
+from pygments.lexers import get_lexer_for_filename
+from pygments.token import Comment, Error, Keyword, Literal, Name, Number, Operator, Punctuation, String, Text
+from pygments.util import ClassNotFound
+
+# pygments lexer name -> our language id; anything else is not learned from.
+LANGUAGES = {
+    "Python": "python",
+    "JavaScript": "javascript",
+    "JSX": "javascript",
+    "TypeScript": "typescript",
+    "TSX": "typescript",
+    "Go": "go",
+    "Java": "java",
+    "Rust": "rust",
+    "C": "c",
+    "C++": "cpp",
+    "C#": "csharp",
+}
+
+STRING_TOKEN = "<str>"
+NUMBER_TOKEN = "<num>"
+UNKNOWN_TOKEN = "<unk>"
+
+KEYWORD = "keyword"
+OPERATOR = "operator"
+NAME = "name"
+STRING = "string"
+NUMBER = "number"
+COMMENT = "comment"
+KINDS = (KEYWORD, OPERATOR, NAME, STRING, NUMBER, COMMENT)
+
+
+@dataclass(frozen=True, slots=True)
+class Token:
+    """One lexed token: normalised text, kind and 1-based position (column in characters)."""
+
+    text: str
+    kind: str
+    line: int
+    column: int
+
+
+@functools.lru_cache(maxsize=256)
+def language_for_path(path: str) -> str | None:
+    """Language id from a file name alone (never from its content), or None when unsupported."""
+    try:
+        lexer = get_lexer_for_filename(path)
+    except ClassNotFound:
+        return None
+    return LANGUAGES.get(lexer.name)
+
+
+@functools.lru_cache(maxsize=32)
+def _lexer(language: str):
+    from pygments.lexers import get_lexer_by_name
+
+    # stripnl=False keeps line numbers aligned with the file (and with ast).
+    return get_lexer_by_name(language, stripnl=False, ensurenl=False)
+
+
+@functools.lru_cache(maxsize=1024)
+def token_kind(ttype) -> str | None:
+    """Our kind for a pygments token type; None for white space and errors."""
+    if ttype in Comment or ttype in String.Doc or ttype in Comment.Preproc:
+        return COMMENT
+    if ttype in String or ttype in Literal.String:
+        return STRING
+    if ttype in Number:
+        return NUMBER
+    if ttype in Keyword.Type:
+        # Type names (and, in some lexers, plain names after ":") behave as identifiers.
+        return NAME
+    if ttype in Keyword:
+        return KEYWORD
+    if ttype in Operator.Word:
+        return KEYWORD
+    if ttype in Name.Builtin.Pseudo:
+        return NAME
+    if ttype in Name:
+        return NAME
+    if ttype in Operator or ttype in Punctuation:
+        return OPERATOR
+    if ttype in Text or ttype in Error:
+        return None
+    if ttype in Literal:
+        return STRING
+    return None
+
+
+def lex(text: str, language: str, keep_comments: bool = False) -> list[Token]:
+    """Lex source text into normalised tokens.
+
+    String fragments merge into one STRING_TOKEN, numbers become NUMBER_TOKEN, comments
+    are dropped unless asked for (then their text is replaced by the kind, never kept).
+    """
+    tokens: list[Token] = []
+    line, column = 1, 1
+    previous_kind = None
+    for _, ttype, value in _lexer(language).get_tokens_unprocessed(text):
+        kind = token_kind(ttype)
+        start_line, start_column = line, column
+        newlines = value.count("\n")
+        if newlines:
+            line += newlines
+            column = len(value) - value.rfind("\n")
+        else:
+            column += len(value)
+        if kind is None:
+            if value.strip() and ttype in Error and value.isidentifier():
+                kind = NAME
+            else:
+                continue
+        stripped = value.strip()
+        if not stripped:
+            continue
+        if kind == COMMENT:
+            if keep_comments:
+                tokens.append(Token("<comment>", COMMENT, start_line, start_column))
+            previous_kind = COMMENT
+            continue
+        if kind == STRING:
+            if previous_kind != STRING:
+                tokens.append(Token(STRING_TOKEN, STRING, start_line, start_column))
+            previous_kind = STRING
+            continue
+        if kind == NUMBER:
+            tokens.append(Token(NUMBER_TOKEN, NUMBER, start_line, start_column))
+        elif kind == OPERATOR and len(stripped) > 1 and not _is_operator(stripped):
+            # Punctuation runs such as "):" arrive as one value in some lexers: split them.
+            offset = value.index(stripped[0])
+            for i, char in enumerate(stripped):
+                if not char.isspace():
+                    tokens.append(Token(char, OPERATOR, start_line, start_column + offset + i))
+        else:
+            if kind == NAME and not stripped.replace("$", "_").isidentifier():
+                kind = OPERATOR if not any(c.isalnum() for c in stripped) else NAME
+            leading = len(value) - len(value.lstrip())
+            tokens.append(Token(stripped, kind, start_line, start_column + leading))
+        previous_kind = kind
+    return tokens
+
+
+_OPERATORS = {
+    "==", "!=", "<=", ">=", "->", "=>", "::", "**", "//", "&&", "||", "++", "--", "+=", "-=",
+    "*=", "/=", "%=", "&=", "|=", "^=", "<<", ">>", ":=", "...", "===", "!==", "**=", "//=",
+    ">>=", "<<=", "?.", "??", "??=", "<-", "..", "..=", "@=", ">>>",
+}
+
+
+def _is_operator(value: str) -> bool:
+    return value in _OPERATORS
+
+
+_SPLIT = re.compile(r"[A-Z]+(?=[A-Z][a-z])|[A-Z]?[a-z]+|[A-Z]+|\d+")
+
+
+@functools.lru_cache(maxsize=200_000)
+def split_identifier(identifier: str) -> tuple[str, ...]:
+    """Sub-tokens of an identifier, lower-cased: camelCase, PascalCase, snake_case, digits, acronyms."""
+    return tuple(part.lower() for part in _SPLIT.findall(identifier))
+
+
+def case_style(identifier: str) -> str:
+    """The naming convention an identifier is written in."""
+    core = identifier.strip("_")
+    if not core:
+        return "other"
+    if "_" in core:
+        if core.upper() == core and any(c.isalpha() for c in core):
+            return "screaming"
+        if core.lower() == core:
+            return "snake"
+        return "mixed"
+    if core.lower() == core:
+        return "lower"
+    if core.upper() == core:
+        return "screaming" if len(core) > 1 else "pascal"
+    if core[0].isupper():
+        return "pascal"
+    return "camel"
+
+
+def fits_style(identifier: str, style: str) -> bool:
+    """True when an identifier can be written in the given dominant style."""
+    own = case_style(identifier)
+    if own == style:
+        return True
+    if own == "lower":
+        return style in ("snake", "camel", "lower")
+    return False
+
+
+def join_subtokens(parts: list[str] | tuple[str, ...], style: str) -> str:
+    """Write sub-tokens as one identifier in a naming style."""
+    if not parts:
+        return ""
+    if style == "camel":
+        return parts[0] + "".join(p.capitalize() for p in parts[1:])
+    if style == "pascal":
+        return "".join(p.capitalize() for p in parts)
+    if style == "screaming":
+        return "_".join(p.upper() for p in parts)
+    return "_".join(parts)

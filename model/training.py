@@ -1,0 +1,351 @@
+"""Train embeddings and name tables from a corpus, calibrate the flag threshold, measure quality."""
+
+from __future__ import annotations
+
+import hashlib
+import logging
+import os
+import random
+import time
+from collections import Counter
+from dataclasses import asdict, dataclass, field
+
+import numpy as np
+
+from .corpus import Corpus, SourceFile
+from .scopes import Variable
+from .scoring import (IGNORED_NAMES, WINDOW, Detector, NameTables, Scorer, Weights, allowed_mask,
+                      detection_features, dominant_style, fit_detector, name_fit, occurrence_contexts,
+                      rank_candidates, token_ids, _context_vector)
+from .vocabulary import Vocabulary, build_vocabulary, count_tokens
+
+MAX_SENTENCE = 10_000  # gensim silently truncates longer sentences
+EVIDENCE_PER_NAME = 6
+
+log = logging.getLogger("cognomen.training")
+
+
+@dataclass
+class TrainSettings:
+    """Training choices; every one is stored in the model's manifest."""
+
+    vocabulary_size: int = 50_000
+    min_count: int = 2
+    vector_size: int = 64
+    window: int = 5
+    epochs: int = 5
+    negative: int = 5
+    seed: int = 1
+    workers: int = field(default_factory=lambda: os.cpu_count() or 1)
+    names_per_language: int = 20_000
+    flag_budget: float = 1.0  # flags per 1,000 non-blank lines of clean code
+    calibration_share: float = 0.15
+    calibration_files: int = 200
+
+
+class TrainingStopped(Exception):
+    """Training was interrupted; nothing was written."""
+
+
+def split_files(paths: list[str], share: float, seed: int) -> tuple[set[str], set[str]]:
+    """Split paths by a seeded hash: (kept, held out); the held-out share is about `share`."""
+    held = set()
+    for path in paths:
+        digest = hashlib.sha256(f"{seed}:{path}".encode()).digest()
+        if int.from_bytes(digest[:4], "big") / 2**32 < share:
+            held.add(path)
+    return set(paths) - held, held
+
+
+def train_embeddings(files: list[SourceFile], vocabulary: Vocabulary, settings: TrainSettings,
+                     progress=None) -> tuple[np.ndarray, np.ndarray]:
+    """CBOW with negative sampling; returns input and output vectors in the vocabulary's row order."""
+    from gensim.models import Word2Vec
+    from gensim.models.callbacks import CallbackAny2Vec
+
+    index = vocabulary.index
+    unknown = vocabulary.tokens[0]
+    sentences = []
+    for source in files:
+        texts = [t.text if t.text in index else unknown for t in source.tokens]
+        for start in range(0, len(texts), MAX_SENTENCE):
+            sentences.append(texts[start:start + MAX_SENTENCE])
+    total_words = sum(len(s) for s in sentences)
+
+    class Progress(CallbackAny2Vec):
+        def __init__(self):
+            self.epoch = 0
+            self.started = time.monotonic()
+
+        def on_epoch_end(self, model):
+            self.epoch += 1
+            if progress:
+                elapsed = time.monotonic() - self.started
+                progress(self.epoch, settings.epochs, total_words * self.epoch / max(elapsed, 1e-9),
+                         elapsed / self.epoch * (settings.epochs - self.epoch))
+
+    model = Word2Vec(vector_size=settings.vector_size, window=settings.window, min_count=1, sg=0,
+                     negative=settings.negative, hs=0, sample=0, workers=settings.workers, seed=settings.seed,
+                     epochs=settings.epochs)
+    model.build_vocab(sentences)
+    model.train(sentences, total_examples=len(sentences), epochs=settings.epochs, callbacks=[Progress()])
+    dimensions = settings.vector_size
+    inputs = np.zeros((len(vocabulary), dimensions), dtype=np.float32)
+    outputs = np.zeros((len(vocabulary), dimensions), dtype=np.float32)
+    for row, token in enumerate(vocabulary.tokens):
+        gensim_row = model.wv.key_to_index.get(token)
+        if gensim_row is not None:
+            inputs[row] = model.wv.vectors[gensim_row]
+            outputs[row] = model.syn1neg[gensim_row]
+    return inputs, outputs
+
+
+def build_tables(files: list[SourceFile], vocabulary: Vocabulary, inputs: np.ndarray, outputs: np.ndarray,
+                 settings: TrainSettings) -> NameTables:
+    """Candidate names, position-specific context counts and evidence places from the given files."""
+    per_language: dict[str, Counter] = {}
+    for source in files:
+        counter = per_language.setdefault(source.language, Counter())
+        for variable in source.variables:
+            if variable.name not in IGNORED_NAMES and variable.name in vocabulary.index:
+                counter[variable.name] += min(len(variable.occurrences), 24)
+    names, languages, counts = [], [], []
+    styles = {}
+    for language in sorted(per_language):
+        counter = per_language[language]
+        styles[language] = dominant_style(counter)
+        for name, count in sorted(counter.items(), key=lambda item: (-item[1], item[0]))[:settings.names_per_language]:
+            names.append(name)
+            languages.append(language)
+            counts.append(count)
+    row_by_name = {(lang, name): row for row, (lang, name) in enumerate(zip(languages, names))}
+    vocabulary_size = len(vocabulary)
+    self_id, pad_id = vocabulary.id("<self>"), vocabulary.id("<pad>")
+    key_parts, row_parts = [], []
+    evidence: dict[int, list[tuple[str, int, np.ndarray]]] = {}
+    placeholder = NameTables(vocabulary, inputs, outputs, [], [], np.zeros(0, np.float32), np.zeros(0, np.int32),
+                             {}, np.zeros(0, np.int64), np.zeros(0, np.float32), np.zeros(1, np.int64),
+                             np.zeros(0, np.int32), np.zeros(0, np.float32), np.zeros(0, np.int32), [],
+                             np.zeros(0, np.int32), np.zeros(0, np.int32), np.zeros((0, inputs.shape[1]), np.float32))
+    order = list(range(len(files)))
+    random.Random(settings.seed).shuffle(order)
+    for file_index in order:
+        source = files[file_index]
+        ids = None
+        for variable in source.variables:
+            row = row_by_name.get((source.language, variable.name))
+            if row is None:
+                continue
+            if ids is None:
+                ids = token_ids(source, vocabulary)
+            contexts = occurrence_contexts(ids, variable.occurrences, WINDOW, self_id, pad_id)
+            slots = np.arange(contexts.shape[1], dtype=np.int64)
+            keys = (slots[None, :] * vocabulary_size + contexts).ravel()
+            key_parts.append(keys)
+            row_parts.append(np.full(keys.size, row, dtype=np.int64))
+            places = evidence.setdefault(row, [])
+            if len(places) < EVIDENCE_PER_NAME and all(p[0] != source.path for p in places):
+                line = source.tokens[variable.occurrences[0]].line
+                places.append((source.path, line, _context_vector(placeholder, ids, variable)))
+    if key_parts:
+        keys = np.concatenate(key_parts)
+        rows = np.concatenate(row_parts)
+        combined = keys * max(len(names), 1) + rows
+        unique, pair_counts = np.unique(combined, return_counts=True)
+        pair_keys = unique // max(len(names), 1)
+        pair_rows = (unique % max(len(names), 1)).astype(np.int32)
+        feature_keys, starts = np.unique(pair_keys, return_index=True)
+        indptr = np.append(starts, len(pair_keys)).astype(np.int64)
+        feature_totals = np.add.reduceat(pair_counts, starts).astype(np.float32) if len(starts) else np.zeros(0, np.float32)
+        total = float(rows.size) / (2 * WINDOW)
+    else:
+        pair_rows = np.zeros(0, np.int32)
+        pair_counts = np.zeros(0)
+        feature_keys = np.zeros(0, np.int64)
+        indptr = np.zeros(1, np.int64)
+        feature_totals = np.zeros(0, np.float32)
+        total = 1.0
+    evidence_rows, path_ids, lines, vectors = [], [], [], []
+    paths: dict[str, int] = {}
+    for row in sorted(evidence):
+        for path, line, vector in evidence[row]:
+            evidence_rows.append(row)
+            path_ids.append(paths.setdefault(path, len(paths)))
+            lines.append(line)
+            vectors.append(vector)
+    return NameTables(
+        vocabulary=vocabulary, input_vectors=inputs, output_vectors=outputs, names=names,
+        name_languages=languages, name_counts=np.array(counts, dtype=np.float32),
+        name_vocab_rows=np.array([vocabulary.id(n) for n in names], dtype=np.int32), styles=styles,
+        feature_keys=feature_keys.astype(np.int64), feature_totals=feature_totals, context_indptr=indptr,
+        context_columns=pair_rows.astype(np.int32), context_counts=pair_counts.astype(np.float32),
+        evidence_rows=np.array(evidence_rows, dtype=np.int32), evidence_paths=list(paths),
+        evidence_path_ids=np.array(path_ids, dtype=np.int32), evidence_lines=np.array(lines, dtype=np.int32),
+        evidence_vectors=np.array(vectors, dtype=np.float32).reshape(len(vectors), inputs.shape[1]),
+        total_occurrences=max(total, 1.0),
+    )
+
+
+def seed_misname(source: SourceFile, variable: Variable, rng: random.Random) -> str | None:
+    """A name used for a local variable elsewhere in the same file and not in this variable's scope."""
+    options = sorted({v.name for v in source.variables
+                      if v.name != variable.name and v.name not in variable.bound_names
+                      and v.name not in IGNORED_NAMES and v.kind == "local"})
+    return rng.choice(options) if options else None
+
+
+def rename(source: SourceFile, variable: Variable, new_name: str) -> tuple[SourceFile, Variable]:
+    """The file as it would lex with every occurrence of the variable renamed."""
+    tokens = list(source.tokens)
+    for index in variable.occurrences:
+        tokens[index] = type(tokens[index])(new_name, tokens[index].kind, tokens[index].line, tokens[index].column)
+    renamed = Variable(new_name, variable.kind, variable.occurrences, variable.scope_start, variable.scope_end,
+                       variable.function, variable.public_parameter,
+                       (variable.bound_names - {variable.name}) | {new_name})
+    variables = [renamed if v is variable else v for v in source.variables]
+    return SourceFile(source.path, source.language, source.digest, source.lines, tokens, variables), renamed
+
+
+@dataclass
+class Examples:
+    """Detection features for real variables (label 0) and seeded misnames (label 1)."""
+
+    features: list[np.ndarray] = field(default_factory=list)
+    labels: list[int] = field(default_factory=list)
+    recovered_at: list[int] = field(default_factory=list)  # rank of the true name, per seeded misname
+    lines: int = 0
+
+
+def collect_examples(tables: NameTables, files: list[SourceFile], seed: int, weights: Weights | None = None,
+                     limit: int = 8000) -> Examples:
+    """Real variables and one seeded misname each, scored against tables that never saw these files."""
+    rng = random.Random(seed)
+    examples = Examples()
+    scorer = Scorer(tables, None, 0.0, weights)
+    for source in files:
+        examples.lines += source.lines
+        ids = token_ids(source, tables.vocabulary)
+        for variable in source.variables:
+            if variable.name in IGNORED_NAMES or len(examples.labels) >= limit:
+                continue
+            ranking = rank_candidates(tables, source, variable, ids, weights)
+            if ranking is None:
+                continue
+            fit = name_fit(tables, ranking, variable.name, weights)
+            allowed = allowed_mask(tables, ranking, variable.bound_names, variable.name)
+            if fit is not None:
+                examples.features.append(detection_features(tables, ranking, allowed, fit, variable.name, variable))
+                examples.labels.append(0)
+            wrong = seed_misname(source, variable, rng)
+            if wrong is None:
+                continue
+            # Own occurrences are masked in every context, so the ranking is the same after renaming.
+            _, renamed = rename(source, variable, wrong)
+            allowed = allowed_mask(tables, ranking, renamed.bound_names, wrong)
+            suggestions = scorer.suggestions(ranking, allowed, 10)
+            names = [s.name for s in suggestions]
+            examples.recovered_at.append(names.index(variable.name) + 1 if variable.name in names else 0)
+            fit = name_fit(tables, ranking, wrong, weights)
+            if fit is not None:
+                examples.features.append(detection_features(tables, ranking, allowed, fit, wrong, renamed))
+                examples.labels.append(1)
+    return examples
+
+
+def calibrate(oddness_clean: np.ndarray, lines: int, budget: float) -> float:
+    """The lowest threshold that keeps flags on clean code within `budget` per 1,000 lines."""
+    allowed_flags = int(budget * lines / 1000)
+    ordered = np.sort(oddness_clean)[::-1]
+    if len(ordered) == 0:
+        return 0.0
+    if allowed_flags >= len(ordered):
+        return float(ordered[-1]) - 1e-6
+    return float(ordered[allowed_flags])
+
+
+@dataclass
+class TrainedModel:
+    """Everything a model bundle holds, before it is written."""
+
+    vocabulary: Vocabulary
+    tables: NameTables
+    detector: Detector | None
+    threshold: float
+    quality: dict
+    counts: dict
+    seconds: dict
+
+
+def train(corpus: Corpus, settings: TrainSettings, progress=None) -> TrainedModel:
+    """Vocabulary, embeddings, name tables, detector and threshold from a lexed corpus."""
+    started = time.monotonic()
+    files = corpus.files
+    counts, kinds = count_tokens(f.tokens for f in files)
+    vocabulary = build_vocabulary(counts, kinds, settings.vocabulary_size, settings.min_count)
+    counted = time.monotonic()
+    inputs, outputs = train_embeddings(files, vocabulary, settings, progress)
+    embedded = time.monotonic()
+
+    kept, held = split_files([f.path for f in files], settings.calibration_share, settings.seed)
+    held_files = [f for f in files if f.path in held][: settings.calibration_files]
+    detector, threshold, quality = None, 0.0, {}
+    if held_files and kept:
+        partial = build_tables([f for f in files if f.path in kept], vocabulary, inputs, outputs, settings)
+        examples = collect_examples(partial, held_files, settings.seed)
+        quality = summarise(examples)
+        labels = np.array(examples.labels)
+        if labels.size and 0 < labels.sum() < labels.size:
+            features = np.array(examples.features)
+            detector = fit_detector(features, labels)
+            oddness = detector.oddness(features)
+            threshold = calibrate(oddness[labels == 0], examples.lines, settings.flag_budget)
+            quality.update(detection_quality(oddness, labels, threshold, examples.lines))
+    tables = build_tables(files, vocabulary, inputs, outputs, settings)
+    finished = time.monotonic()
+    return TrainedModel(
+        vocabulary, tables, detector, threshold, quality,
+        counts={"files": len(files), "lines": corpus.lines, "tokens": corpus.tokens,
+                "vocabulary": len(vocabulary), "names": len(tables.names),
+                "calibration_files": len(held_files)},
+        seconds={"vocabulary": round(counted - started, 2), "embeddings": round(embedded - counted, 2),
+                 "names_and_calibration": round(finished - embedded, 2)},
+    )
+
+
+def summarise(examples: Examples) -> dict:
+    ranks = np.array(examples.recovered_at)
+    if ranks.size == 0:
+        return {}
+    return {"seeded": int(ranks.size),
+            "recovery_at_1": round(float(((ranks >= 1) & (ranks <= 1)).mean()), 4),
+            "recovery_at_5": round(float(((ranks >= 1) & (ranks <= 5)).mean()), 4)}
+
+
+def detection_quality(oddness: np.ndarray, labels: np.ndarray, threshold: float, lines: int) -> dict:
+    clean = oddness[labels == 0]
+    seeded = oddness[labels == 1]
+    return {"detection_auc": round(auc(seeded, clean), 4),
+            "recall_at_threshold": round(float((seeded > threshold).mean()) if seeded.size else 0.0, 4),
+            "false_alarms_per_kloc": round(float((clean > threshold).sum()) * 1000 / max(lines, 1), 3)}
+
+
+def auc(positives: np.ndarray, negatives: np.ndarray) -> float:
+    """Area under the ROC curve: the chance a positive outscores a negative (ties count half)."""
+    if len(positives) == 0 or len(negatives) == 0:
+        return float("nan")
+    values = np.concatenate([positives, negatives])
+    order = values.argsort(kind="mergesort")
+    ranks = np.empty(len(values))
+    sorted_values = values[order]
+    # average ranks for ties
+    unique, first, counts_ = np.unique(sorted_values, return_index=True, return_counts=True)
+    average = first + (counts_ - 1) / 2.0 + 1
+    ranks[order] = np.repeat(average, counts_)
+    positive_ranks = ranks[: len(positives)].sum()
+    return float((positive_ranks - len(positives) * (len(positives) + 1) / 2) / (len(positives) * len(negatives)))
+
+
+def settings_dict(settings: TrainSettings) -> dict:
+    data = asdict(settings)
+    data.pop("workers", None)
+    return data
