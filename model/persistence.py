@@ -8,7 +8,7 @@ from pathlib import Path
 import numpy as np
 
 from . import bundle as store_files
-from .scoring import Detector, NameTables, Scorer
+from .scoring import Detector, NameTables, Scorer, Weights
 from .training import TrainedModel
 from .vocabulary import Vocabulary
 
@@ -52,9 +52,13 @@ def scorer_from_bundle(loaded: store_files.Bundle) -> Scorer:
         _check_shapes(tables)
         detector = Detector.from_json(loaded.documents["detector"]) if "detector" in loaded.documents else None
         threshold = float(loaded.manifest.get("threshold", 0.0))
+        chosen = loaded.manifest.get("settings", {})
+        weights = Weights(embedding=float(chosen.get("embedding_weight", 1.0)),
+                          lexical=float(chosen.get("lexical_weight", 3.0)),
+                          counts=float(chosen.get("count_weight", 1.0)))
     except (KeyError, TypeError, ValueError) as error:
         raise store_files.ModelError(f"model {loaded.model_id} is inconsistent ({error}); retrain it") from None
-    return Scorer(tables, detector, threshold)
+    return Scorer(tables, detector, threshold, weights)
 
 
 def _check_shapes(tables: NameTables) -> None:

@@ -87,6 +87,20 @@ class NameTables:
         for language in set(self.name_languages):
             self.rows_by_language[language] = np.flatnonzero(languages == language).astype(np.int64)
         self.name_subtokens = [frozenset(split_identifier(n)) - STOP_SUBTOKENS for n in self.names]
+        self.subtoken_sizes = np.array([max(len(s), 1) for s in self.name_subtokens], dtype=np.float64)
+        postings: dict[str, list[int]] = {}
+        for row, subtokens in enumerate(self.name_subtokens):
+            for subtoken in subtokens:
+                postings.setdefault(subtoken, []).append(row)
+        self.rows_with_subtoken = {k: np.array(v, dtype=np.int64) for k, v in postings.items()}
+        self.static_allowed = np.zeros(len(self.names), dtype=bool)
+        for language, rows in self.rows_by_language.items():
+            reserved = reserved_words(language)
+            style = self.styles.get(language, "snake")
+            for row in rows:
+                name = self.names[row]
+                self.static_allowed[row] = (name not in reserved and name not in IGNORED_NAMES
+                                            and fits_style(name, style))
         self.evidence_start = np.searchsorted(self.evidence_rows, np.arange(len(self.names) + 1))
         self.log_counts = np.log(self.name_counts.astype(np.float64) + 1.0)
         self.log_count_smoothed = np.log(self.name_counts.astype(np.float64) + SMOOTHING)
@@ -116,6 +130,8 @@ class Ranking:
     context_vector: np.ndarray
     context_subtokens: frozenset[str]
     occurrences: int
+    unseen_count: float = 0.0  # the count score of a name never seen as a local
+    embedding_normaliser: float = 0.0  # log-sum-exp of the candidates' embedding logits
 
 
 @dataclass
@@ -187,20 +203,32 @@ def rank_candidates(tables: NameTables, source: SourceFile, variable: Variable, 
     rows = tables.rows_by_language.get(source.language)
     if rows is None or len(rows) == 0:
         return None
-    count_scores = _count_scores(tables, ids, variable, rows)
+    count_scores, unseen_count = _count_scores(tables, ids, variable, rows)
     context_vector = _context_vector(tables, ids, variable)
     logits = tables._output_by_language[source.language] @ context_vector
-    embedding_scores = logits - _logsumexp(logits)
+    normaliser = _logsumexp(logits)
+    embedding_scores = logits - normaliser
     subtokens = lexical_context(source, variable)
-    lexical_scores = np.fromiter((lexical_fit(tables.name_subtokens[r], subtokens) for r in rows),
-                                 dtype=np.float64, count=len(rows))
+    lexical_scores = _lexical_scores(tables, subtokens)[rows]
     combined = (weights.counts * count_scores + weights.embedding * embedding_scores
                 + weights.lexical * lexical_scores)
     return Ranking(source.language, rows, count_scores, embedding_scores, lexical_scores, combined,
-                   context_vector, subtokens, min(len(variable.occurrences), MAX_OCCURRENCES))
+                   context_vector, subtokens, min(len(variable.occurrences), MAX_OCCURRENCES), unseen_count,
+                   normaliser)
 
 
-def _count_scores(tables: NameTables, ids: np.ndarray, variable: Variable, rows: np.ndarray) -> np.ndarray:
+def _lexical_scores(tables: NameTables, subtokens: frozenset[str]) -> np.ndarray:
+    """lexical_fit of every candidate at once, through the sub-token postings."""
+    matches = np.zeros(len(tables.names), dtype=np.float64)
+    for subtoken in subtokens:
+        rows = tables.rows_with_subtoken.get(subtoken)
+        if rows is not None:
+            matches[rows] += 1.0
+    return matches / tables.subtoken_sizes
+
+
+def _count_scores(tables: NameTables, ids: np.ndarray, variable: Variable,
+                  rows: np.ndarray) -> tuple[np.ndarray, float]:
     contexts = occurrence_contexts(ids, variable.occurrences, WINDOW, tables.self_id, tables.pad_id)
     slots = np.arange(contexts.shape[1], dtype=np.int64)
     keys = (slots[None, :] * len(tables.vocabulary) + contexts).ravel()
@@ -216,7 +244,7 @@ def _count_scores(tables: NameTables, ids: np.ndarray, variable: Variable, rows:
     feature_count = keys.size
     occurrences = contexts.shape[0]
     scores = tables.log_counts + (accumulated - feature_count * tables.log_count_smoothed) / occurrences
-    return scores[rows]
+    return scores[rows], -feature_count * math.log(SMOOTHING) / occurrences
 
 
 def _context_vector(tables: NameTables, ids: np.ndarray, variable: Variable) -> np.ndarray:
@@ -238,13 +266,12 @@ def _logsumexp(values: np.ndarray) -> float:
 
 def allowed_mask(tables: NameTables, ranking: Ranking, bound_names: frozenset[str], current: str) -> np.ndarray:
     """Candidates that may replace the current name: not bound nearby, not reserved, in the team's style."""
-    reserved = reserved_words(ranking.language)
-    style = tables.styles.get(ranking.language, "snake")
-    names = tables.names
-    return np.fromiter(
-        (names[r] != current and names[r] not in bound_names and names[r] not in reserved
-         and names[r] not in IGNORED_NAMES and fits_style(names[r], style) for r in ranking.rows),
-        dtype=bool, count=len(ranking.rows))
+    allowed = tables.static_allowed.copy()
+    for name in bound_names | {current}:
+        row = tables.row_by_name.get((ranking.language, name))
+        if row is not None:
+            allowed[row] = False
+    return allowed[ranking.rows]
 
 
 @dataclass
@@ -257,34 +284,43 @@ class NameFit:
     combined: float
     rank: int
     known: bool
+    parts_known: float = 1.0
 
 
 def name_fit(tables: NameTables, ranking: Ranking, name: str, weights: Weights | None = None) -> NameFit | None:
     """Where a name stands among the candidates; unseen names are judged by their sub-tokens."""
     weights = weights or Weights()
     row = tables.row_by_name.get((ranking.language, name))
-    lexical = lexical_fit(frozenset(split_identifier(name)) - STOP_SUBTOKENS, ranking.context_subtokens)
-    position = {int(r): i for i, r in enumerate(ranking.rows)} if row is None else None
+    subtokens = [part for part in split_identifier(name) if part not in STOP_SUBTOKENS]
+    if not subtokens:
+        return None
+    lexical = lexical_fit(frozenset(subtokens), ranking.context_subtokens)
     if row is not None:
         index = int(np.searchsorted(ranking.rows, row))
-        indices = [index]
-        known = True
+        count = float(ranking.count_scores[index])
+        embedding = float(ranking.embedding_scores[index])
+        known, parts_known = True, 1.0
     else:
-        parts = [tables.row_by_name.get((ranking.language, part)) for part in split_identifier(name)]
-        indices = [position[p] for p in parts if p is not None and p in position]
         known = False
-        if not indices:
-            return None
-    count = float(np.mean(ranking.count_scores[indices]))
-    embedding = float(np.mean(ranking.embedding_scores[indices]))
+        part_rows = [tables.row_by_name.get((ranking.language, part)) for part in subtokens]
+        indices = np.searchsorted(ranking.rows, [r for r in part_rows if r is not None]).astype(np.int64)
+        count = float(ranking.count_scores[indices].mean()) if len(indices) else ranking.unseen_count
+        vocabulary_rows = [tables.vocabulary.index[p] for p in subtokens if p in tables.vocabulary.index]
+        parts_known = len(vocabulary_rows) / len(subtokens)
+        if vocabulary_rows:
+            composed = np.asarray(tables.output_vectors[vocabulary_rows], dtype=np.float32).mean(axis=0)
+            embedding = float(composed @ ranking.context_vector) - ranking.embedding_normaliser
+        else:
+            embedding = float(ranking.embedding_scores.min())
     combined = weights.counts * count + weights.embedding * embedding + weights.lexical * lexical
     rank = int((ranking.combined > combined).sum())
-    return NameFit(count, embedding, lexical, combined, rank, known)
+    return NameFit(count, embedding, lexical, combined, rank, known, parts_known)
 
 
 FEATURE_NAMES = (
     "combined_gap", "count_gap", "embedding_gap", "lexical_current", "lexical_best", "log_rank",
     "log_name_count", "known", "log_occurrences", "is_parameter", "embedding_current", "count_current_gap_top1",
+    "parts_known",
 )
 
 
@@ -308,6 +344,7 @@ def detection_features(tables: NameTables, ranking: Ranking, allowed: np.ndarray
         1.0 if variable.kind == "parameter" else 0.0,
         fit.embedding,
         float(ranking.count_scores[best]) - fit.count,
+        fit.parts_known,
     ], dtype=np.float64)
 
 
@@ -394,8 +431,11 @@ class Scorer:
         combined = np.where(allowed, ranking.combined, -np.inf)
         if not allowed.any():
             return []
-        top = np.argsort(-combined, kind="stable")[:limit]
-        top = [i for i in top if np.isfinite(combined[i])]
+        if len(combined) > limit:
+            candidates = np.argpartition(-combined, limit)[:limit]
+        else:
+            candidates = np.arange(len(combined))
+        top = [int(i) for i in candidates[np.argsort(-combined[candidates], kind="stable")] if np.isfinite(combined[i])]
         shifted = combined[top] - _logsumexp(combined[np.isfinite(combined)])
         return [Suggestion(self.tables.names[ranking.rows[i]], float(math.exp(score)),
                            self.evidence(int(ranking.rows[i]), ranking.context_vector))

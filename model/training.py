@@ -41,6 +41,14 @@ class TrainSettings:
     flag_budget: float = 1.0  # flags per 1,000 non-blank lines of clean code
     calibration_share: float = 0.15
     calibration_files: int = 200
+    embedding_weight: float = 1.0
+    lexical_weight: float = 3.0
+    count_weight: float = 1.0
+    use_detector: bool = True
+
+    @property
+    def weights(self) -> Weights:
+        return Weights(embedding=self.embedding_weight, lexical=self.lexical_weight, counts=self.count_weight)
 
 
 class TrainingStopped(Exception):
@@ -186,12 +194,17 @@ def build_tables(files: list[SourceFile], vocabulary: Vocabulary, inputs: np.nda
     )
 
 
-def seed_misname(source: SourceFile, variable: Variable, rng: random.Random) -> str | None:
+def seed_misname(source: SourceFile, variable: Variable, rng: random.Random,
+                 local_names: list[str] | None = None) -> str | None:
     """A name used for a local variable elsewhere in the same file and not in this variable's scope."""
-    options = sorted({v.name for v in source.variables
-                      if v.name != variable.name and v.name not in variable.bound_names
-                      and v.name not in IGNORED_NAMES and v.kind == "local"})
+    if local_names is None:
+        local_names = file_local_names(source)
+    options = [name for name in local_names if name != variable.name and name not in variable.bound_names]
     return rng.choice(options) if options else None
+
+
+def file_local_names(source: SourceFile) -> list[str]:
+    return sorted({v.name for v in source.variables if v.kind == "local" and v.name not in IGNORED_NAMES})
 
 
 def rename(source: SourceFile, variable: Variable, new_name: str) -> tuple[SourceFile, Variable]:
@@ -223,10 +236,13 @@ def collect_examples(tables: NameTables, files: list[SourceFile], seed: int, wei
     examples = Examples()
     scorer = Scorer(tables, None, 0.0, weights)
     for source in files:
+        if len(examples.labels) >= limit:
+            break  # whole files only, so that flags per line stay honest
         examples.lines += source.lines
         ids = token_ids(source, tables.vocabulary)
+        local_names = file_local_names(source)
         for variable in source.variables:
-            if variable.name in IGNORED_NAMES or len(examples.labels) >= limit:
+            if variable.name in IGNORED_NAMES:
                 continue
             ranking = rank_candidates(tables, source, variable, ids, weights)
             if ranking is None:
@@ -236,7 +252,7 @@ def collect_examples(tables: NameTables, files: list[SourceFile], seed: int, wei
             if fit is not None:
                 examples.features.append(detection_features(tables, ranking, allowed, fit, variable.name, variable))
                 examples.labels.append(0)
-            wrong = seed_misname(source, variable, rng)
+            wrong = seed_misname(source, variable, rng, local_names)
             if wrong is None:
                 continue
             # Own occurrences are masked in every context, so the ranking is the same after renaming.
@@ -277,35 +293,42 @@ class TrainedModel:
 
 
 def train(corpus: Corpus, settings: TrainSettings, progress=None) -> TrainedModel:
-    """Vocabulary, embeddings, name tables, detector and threshold from a lexed corpus."""
+    """Vocabulary, embeddings, name tables, detector and threshold from a lexed corpus.
+
+    About `calibration_share` of the files are kept out of every learned part and used to fit
+    the detector and calibrate the threshold, so both see names as they will in new code.
+    """
     started = time.monotonic()
-    files = corpus.files
+    kept, held = split_files([f.path for f in corpus.files], settings.calibration_share, settings.seed)
+    if not kept or not held:
+        kept, held = {f.path for f in corpus.files}, set()
+    files = [f for f in corpus.files if f.path in kept]
+    held_files = [f for f in corpus.files if f.path in held][: settings.calibration_files]
     counts, kinds = count_tokens(f.tokens for f in files)
     vocabulary = build_vocabulary(counts, kinds, settings.vocabulary_size, settings.min_count)
     counted = time.monotonic()
     inputs, outputs = train_embeddings(files, vocabulary, settings, progress)
     embedded = time.monotonic()
-
-    kept, held = split_files([f.path for f in files], settings.calibration_share, settings.seed)
-    held_files = [f for f in files if f.path in held][: settings.calibration_files]
+    tables = build_tables(files, vocabulary, inputs, outputs, settings)
     detector, threshold, quality = None, 0.0, {}
-    if held_files and kept:
-        partial = build_tables([f for f in files if f.path in kept], vocabulary, inputs, outputs, settings)
-        examples = collect_examples(partial, held_files, settings.seed)
+    if held_files:
+        examples = collect_examples(tables, held_files, settings.seed, settings.weights)
         quality = summarise(examples)
         labels = np.array(examples.labels)
         if labels.size and 0 < labels.sum() < labels.size:
             features = np.array(examples.features)
-            detector = fit_detector(features, labels)
-            oddness = detector.oddness(features)
+            if settings.use_detector and labels.size >= 20:
+                detector = fit_detector(features, labels)
+                oddness = detector.oddness(features)
+            else:
+                oddness = features[:, 0]
             threshold = calibrate(oddness[labels == 0], examples.lines, settings.flag_budget)
             quality.update(detection_quality(oddness, labels, threshold, examples.lines))
-    tables = build_tables(files, vocabulary, inputs, outputs, settings)
     finished = time.monotonic()
     return TrainedModel(
         vocabulary, tables, detector, threshold, quality,
-        counts={"files": len(files), "lines": corpus.lines, "tokens": corpus.tokens,
-                "vocabulary": len(vocabulary), "names": len(tables.names),
+        counts={"files": len(corpus.files), "training_files": len(files), "lines": corpus.lines,
+                "tokens": corpus.tokens, "vocabulary": len(vocabulary), "names": len(tables.names),
                 "calibration_files": len(held_files)},
         seconds={"vocabulary": round(counted - started, 2), "embeddings": round(embedded - counted, 2),
                  "names_and_calibration": round(finished - embedded, 2)},

@@ -1,0 +1,117 @@
+"""The whole training run: discover, lex (cached), train, write, gate, promote, prune."""
+
+from __future__ import annotations
+
+import hashlib
+import subprocess
+import time
+from dataclasses import dataclass, field
+from pathlib import Path
+
+from . import bundle, persistence
+from .corpus import Corpus, TokenCache, discover, load_corpus, read_settings
+from .training import TrainSettings, settings_dict, train
+
+
+class NothingToLearn(Exception):
+    """No source files under the given path."""
+
+
+@dataclass
+class GatePolicy:
+    """When a freshly trained model may replace the current one."""
+
+    tolerance: float = 0.02  # largest allowed drop in recovery@5 and in detection recall
+    force: bool = False
+
+
+@dataclass
+class TrainResult:
+    model_id: str | None
+    promoted: bool
+    reason: str
+    corpus: Corpus | None = None
+    manifest: dict = field(default_factory=dict)
+    seconds: dict = field(default_factory=dict)
+    pruned: list[str] = field(default_factory=list)
+    unchanged: bool = False
+
+
+def source_commit(root: Path) -> str | None:
+    try:
+        result = subprocess.run(["git", "rev-parse", "HEAD"], cwd=root, capture_output=True, text=True, timeout=30)
+    except (OSError, subprocess.TimeoutExpired):
+        return None
+    return result.stdout.strip() if result.returncode == 0 else None
+
+
+def fingerprint(corpus: Corpus) -> str:
+    """One hash over every learned file's path and content."""
+    digest = hashlib.sha256()
+    for source in corpus.files:
+        digest.update(f"{source.path}\0{source.digest}\n".encode())
+    return digest.hexdigest()
+
+
+def gate(new_quality: dict, current_quality: dict, policy: GatePolicy) -> tuple[bool, str]:
+    """Promote only if recovery@5 and detection recall drop by no more than the tolerance."""
+    if policy.force:
+        return True, "promoted (forced)"
+    reasons = []
+    for key, label in (("recovery_at_5", "recovery@5"), ("recall_at_threshold", "detection recall")):
+        old, new = current_quality.get(key), new_quality.get(key)
+        if old is None:
+            continue
+        if new is None:
+            reasons.append(f"{label} could not be measured (was {old:.3f})")
+        elif new < old - policy.tolerance:
+            reasons.append(f"{label} fell from {old:.3f} to {new:.3f} (tolerance {policy.tolerance:.3f})")
+    if reasons:
+        return False, "kept the current model: " + "; ".join(reasons)
+    return True, "promoted"
+
+
+def train_repository(path: Path, store: Path, settings: TrainSettings, policy: GatePolicy | None = None,
+                     keep: int = 4, if_changed: bool = False, report=None) -> TrainResult:
+    """Train on the code under path and promote the model if it passes the quality gate."""
+    policy = policy or GatePolicy()
+    report = report or (lambda *args: None)
+    started = time.monotonic()
+    selection = discover(path, read_settings(path))
+    if not selection.files:
+        raise NothingToLearn(f"nothing to learn from: 0 source files under {path}")
+    report("files", len(selection.files))
+    corpus = load_corpus(selection, TokenCache(store / "cache"),
+                         progress=lambda done, total: report("lexing", done, total))
+    if not corpus.files:
+        raise NothingToLearn(f"nothing to learn from: 0 source files under {path}")
+    corpus_seconds = time.monotonic() - started
+    current_id = bundle.current_model_id(store)
+    current_manifest = {}
+    if current_id:
+        try:
+            current_manifest = bundle.load_model(store / "models" / current_id).manifest
+        except bundle.ModelError:
+            current_manifest = {}
+    corpus_hash = fingerprint(corpus)
+    if if_changed and current_manifest.get("corpus_fingerprint") == corpus_hash:
+        return TrainResult(current_id, False, "the repository has not changed since the current model",
+                           corpus, current_manifest, {"corpus": round(corpus_seconds, 2)}, unchanged=True)
+    report("training", corpus)
+    trained = train(corpus, settings, progress=lambda *args: report("epoch", *args))
+    manifest = {
+        "source_commit": source_commit(path),
+        "source_path": str(path),
+        "corpus_fingerprint": corpus_hash,
+        "settings": settings_dict(settings),
+        "skipped": corpus.skipped,
+    }
+    directory = persistence.save(store, trained, manifest)
+    model_id = directory.name
+    written = bundle.load_model(directory).manifest
+    promoted, reason = gate(trained.quality, current_manifest.get("quality", {}) if current_manifest else {}, policy)
+    if promoted:
+        bundle.promote(store, model_id)
+    pruned = bundle.prune(store, keep)
+    seconds = {"corpus": round(corpus_seconds, 2), **trained.seconds, "total": round(time.monotonic() - started, 2)}
+    return TrainResult(model_id, promoted, reason, corpus, written, seconds, pruned)
