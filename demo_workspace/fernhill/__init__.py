@@ -1,0 +1,1 @@
+"""Irrigation controller for the Fernhill glasshouses."""
