@@ -23,7 +23,8 @@ def save(store: Path, trained: TrainedModel, manifest: dict) -> Path:
     documents = {
         "vocabulary": trained.vocabulary.to_json(),
         "names": {"names": tables.names, "languages": tables.name_languages, "styles": tables.styles,
-                  "evidence_paths": tables.evidence_paths, "total_occurrences": tables.total_occurrences},
+                  "evidence_paths": tables.evidence_paths, "total_occurrences": tables.total_occurrences,
+                  "variables_per_language": tables.variables_per_language},
     }
     if trained.detector is not None:
         documents["detector"] = trained.detector.to_json()
@@ -47,6 +48,7 @@ def scorer_from_bundle(loaded: store_files.Bundle) -> Scorer:
             styles=dict(names["styles"]),
             evidence_paths=list(names["evidence_paths"]),
             total_occurrences=float(names["total_occurrences"]),
+            variables_per_language={k: int(v) for k, v in names.get("variables_per_language", {}).items()},
             **{name: arrays[name] for name in _TABLE_ARRAYS},
         )
         _check_shapes(tables)

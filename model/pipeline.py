@@ -9,7 +9,9 @@ from dataclasses import dataclass, field
 from pathlib import Path
 
 from . import bundle, persistence
-from .corpus import Corpus, TokenCache, discover, load_corpus, read_settings
+import sysconfig
+
+from .corpus import Corpus, Settings, TokenCache, discover, load_corpus, read_settings
 from .training import TrainSettings, settings_dict, train
 
 
@@ -35,6 +37,29 @@ class TrainResult:
     seconds: dict = field(default_factory=dict)
     pruned: list[str] = field(default_factory=list)
     unchanged: bool = False
+
+
+STDLIB = "stdlib"
+_STDLIB_EXCLUDES = ["test/*", "*/test/*", "*/tests/*", "*/idle_test/*", "tests/*"]
+
+
+def load_background(names: list[str], cache: TokenCache) -> Corpus | None:
+    """Other code to learn general naming from, at a lower weight: folders, or `stdlib`."""
+    files, skipped = [], {}
+    for name in names:
+        if name == STDLIB:
+            root, settings = Path(sysconfig.get_paths()["stdlib"]), Settings(exclude=list(_STDLIB_EXCLUDES))
+        else:
+            root, settings = Path(name), Settings()
+        if not root.is_dir():
+            raise NothingToLearn(f"background {name} is not a directory")
+        corpus = load_corpus(discover(root, settings), cache)
+        for source in corpus.files:
+            source.path = f"<{name}>/{source.path}"
+        files.extend(corpus.files)
+        for reason, count in corpus.skipped.items():
+            skipped[reason] = skipped.get(reason, 0) + count
+    return Corpus(files, skipped) if files else None
 
 
 def source_commit(root: Path) -> str | None:
@@ -72,7 +97,8 @@ def gate(new_quality: dict, current_quality: dict, policy: GatePolicy) -> tuple[
 
 
 def train_repository(path: Path, store: Path, settings: TrainSettings, policy: GatePolicy | None = None,
-                     keep: int = 4, if_changed: bool = False, report=None) -> TrainResult:
+                     keep: int = 4, if_changed: bool = False, report=None,
+                     background: list[str] | None = None) -> TrainResult:
     """Train on the code under path and promote the model if it passes the quality gate."""
     policy = policy or GatePolicy()
     report = report or (lambda *args: None)
@@ -97,13 +123,15 @@ def train_repository(path: Path, store: Path, settings: TrainSettings, policy: G
     if if_changed and current_manifest.get("corpus_fingerprint") == corpus_hash:
         return TrainResult(current_id, False, "the repository has not changed since the current model",
                            corpus, current_manifest, {"corpus": round(corpus_seconds, 2)}, unchanged=True)
+    extra = load_background(background or [], TokenCache(store / "cache"))
     report("training", corpus)
-    trained = train(corpus, settings, progress=lambda *args: report("epoch", *args))
+    trained = train(corpus, settings, progress=lambda *args: report("epoch", *args), background=extra)
     manifest = {
         "source_commit": source_commit(path),
         "source_path": str(path),
         "corpus_fingerprint": corpus_hash,
         "settings": settings_dict(settings),
+        "background": list(background or []),
         "skipped": corpus.skipped,
     }
     directory = persistence.save(store, trained, manifest)

@@ -20,6 +20,7 @@ MAX_OCCURRENCES = 24  # occurrences beyond this add little and cost time
 SMOOTHING = 8.0  # Dirichlet prior strength for the position-specific counts
 STOP_SUBTOKENS = frozenset({"self", "cls", "this"})
 IGNORED_NAMES = RECEIVER_NAMES | {"_", "__"}
+MIN_VARIABLES_TO_JUDGE = 1000  # below this a language gets suggestions but never flags
 
 _RESERVED_WORDS = {
     "python": PYTHON_KEYWORDS | PYTHON_BUILTINS,
@@ -79,6 +80,11 @@ class NameTables:
     evidence_lines: np.ndarray  # (E,) int32
     evidence_vectors: np.ndarray  # (E, d) float32
     total_occurrences: float = 1.0
+    variables_per_language: dict[str, int] = field(default_factory=dict)
+
+    def judges(self, language: str) -> bool:
+        """Whether the model saw enough variables of a language to call a name odd in it."""
+        return self.variables_per_language.get(language, 0) >= MIN_VARIABLES_TO_JUDGE
 
     def __post_init__(self) -> None:
         self.row_by_name = {(lang, name): row for row, (lang, name) in enumerate(zip(self.name_languages, self.names))}
@@ -418,7 +424,7 @@ class Scorer:
         allowed = allowed_mask(self.tables, ranking, variable.bound_names, variable.name)
         suggestions = self.suggestions(ranking, allowed, limit)
         fit = name_fit(self.tables, ranking, variable.name, self.weights)
-        if fit is None:
+        if fit is None or not self.tables.judges(source.language):
             return Judgement(variable, None, suggestions)
         features = detection_features(self.tables, ranking, allowed, fit, variable.name, variable)
         if self.detector is not None:

@@ -45,6 +45,7 @@ class TrainSettings:
     lexical_weight: float = 3.0
     count_weight: float = 1.0
     use_detector: bool = True
+    background_weight: float = 0.3  # how much a background corpus file counts against a team file
 
     @property
     def weights(self) -> Weights:
@@ -109,14 +110,21 @@ def train_embeddings(files: list[SourceFile], vocabulary: Vocabulary, settings: 
 
 
 def build_tables(files: list[SourceFile], vocabulary: Vocabulary, inputs: np.ndarray, outputs: np.ndarray,
-                 settings: TrainSettings) -> NameTables:
-    """Candidate names, position-specific context counts and evidence places from the given files."""
+                 settings: TrainSettings, background: frozenset[str] = frozenset()) -> NameTables:
+    """Candidate names, position-specific context counts and evidence places from the given files.
+
+    Files whose paths are in `background` count at `settings.background_weight` and never
+    serve as evidence: suggestions point at the team's own code.
+    """
     per_language: dict[str, Counter] = {}
+    variables_per_language: Counter = Counter()
     for source in files:
         counter = per_language.setdefault(source.language, Counter())
+        variables_per_language[source.language] += len(source.variables)
+        weight = settings.background_weight if source.path in background else 1.0
         for variable in source.variables:
             if variable.name not in IGNORED_NAMES and variable.name in vocabulary.index:
-                counter[variable.name] += min(len(variable.occurrences), 24)
+                counter[variable.name] += weight * min(len(variable.occurrences), 24)
     names, languages, counts = [], [], []
     styles = {}
     for language in sorted(per_language):
@@ -129,7 +137,7 @@ def build_tables(files: list[SourceFile], vocabulary: Vocabulary, inputs: np.nda
     row_by_name = {(lang, name): row for row, (lang, name) in enumerate(zip(languages, names))}
     vocabulary_size = len(vocabulary)
     self_id, pad_id = vocabulary.id("<self>"), vocabulary.id("<pad>")
-    key_parts, row_parts = [], []
+    key_parts, row_parts, weight_parts = [], [], []
     evidence: dict[int, list[tuple[str, int, np.ndarray]]] = {}
     placeholder = NameTables(vocabulary, inputs, outputs, [], [], np.zeros(0, np.float32), np.zeros(0, np.int32),
                              {}, np.zeros(0, np.int64), np.zeros(0, np.float32), np.zeros(1, np.int64),
@@ -151,21 +159,24 @@ def build_tables(files: list[SourceFile], vocabulary: Vocabulary, inputs: np.nda
             keys = (slots[None, :] * vocabulary_size + contexts).ravel()
             key_parts.append(keys)
             row_parts.append(np.full(keys.size, row, dtype=np.int64))
+            is_background = source.path in background
+            weight_parts.append(np.full(keys.size, settings.background_weight if is_background else 1.0))
             places = evidence.setdefault(row, [])
-            if len(places) < EVIDENCE_PER_NAME and all(p[0] != source.path for p in places):
+            if not is_background and len(places) < EVIDENCE_PER_NAME and all(p[0] != source.path for p in places):
                 line = source.tokens[variable.occurrences[0]].line
                 places.append((source.path, line, _context_vector(placeholder, ids, variable)))
     if key_parts:
         keys = np.concatenate(key_parts)
         rows = np.concatenate(row_parts)
         combined = keys * max(len(names), 1) + rows
-        unique, pair_counts = np.unique(combined, return_counts=True)
+        unique, inverse = np.unique(combined, return_inverse=True)
+        pair_counts = np.bincount(inverse.ravel(), weights=np.concatenate(weight_parts))
         pair_keys = unique // max(len(names), 1)
         pair_rows = (unique % max(len(names), 1)).astype(np.int32)
         feature_keys, starts = np.unique(pair_keys, return_index=True)
         indptr = np.append(starts, len(pair_keys)).astype(np.int64)
         feature_totals = np.add.reduceat(pair_counts, starts).astype(np.float32) if len(starts) else np.zeros(0, np.float32)
-        total = float(rows.size) / (2 * WINDOW)
+        total = float(pair_counts.sum()) / (2 * WINDOW)
     else:
         pair_rows = np.zeros(0, np.int32)
         pair_counts = np.zeros(0)
@@ -191,6 +202,7 @@ def build_tables(files: list[SourceFile], vocabulary: Vocabulary, inputs: np.nda
         evidence_path_ids=np.array(path_ids, dtype=np.int32), evidence_lines=np.array(lines, dtype=np.int32),
         evidence_vectors=np.array(vectors, dtype=np.float32).reshape(len(vectors), inputs.shape[1]),
         total_occurrences=max(total, 1.0),
+        variables_per_language=dict(variables_per_language),
     )
 
 
@@ -292,24 +304,29 @@ class TrainedModel:
     seconds: dict
 
 
-def train(corpus: Corpus, settings: TrainSettings, progress=None) -> TrainedModel:
+def train(corpus: Corpus, settings: TrainSettings, progress=None, background: Corpus | None = None) -> TrainedModel:
     """Vocabulary, embeddings, name tables, detector and threshold from a lexed corpus.
 
     About `calibration_share` of the files are kept out of every learned part and used to fit
     the detector and calibrate the threshold, so both see names as they will in new code.
     """
     started = time.monotonic()
-    kept, held = split_files([f.path for f in corpus.files], settings.calibration_share, settings.seed)
+    background_files = background.files if background else []
+    background_paths = frozenset(f.path for f in background_files)
+    everything = corpus.files + background_files
+    kept, held = split_files([f.path for f in everything], settings.calibration_share, settings.seed)
     if not kept or not held:
-        kept, held = {f.path for f in corpus.files}, set()
-    files = [f for f in corpus.files if f.path in kept]
-    held_files = [f for f in corpus.files if f.path in held][: settings.calibration_files]
+        kept, held = {f.path for f in everything}, set()
+    files = [f for f in everything if f.path in kept]
+    # Team files first, so that a small team still calibrates on its own code.
+    held_files = sorted((f for f in everything if f.path in held),
+                        key=lambda f: f.path in background_paths)[: settings.calibration_files]
     counts, kinds = count_tokens(f.tokens for f in files)
     vocabulary = build_vocabulary(counts, kinds, settings.vocabulary_size, settings.min_count)
     counted = time.monotonic()
     inputs, outputs = train_embeddings(files, vocabulary, settings, progress)
     embedded = time.monotonic()
-    tables = build_tables(files, vocabulary, inputs, outputs, settings)
+    tables = build_tables(files, vocabulary, inputs, outputs, settings, background_paths)
     detector, threshold, quality = None, 0.0, {}
     if held_files:
         examples = collect_examples(tables, held_files, settings.seed, settings.weights)
@@ -327,7 +344,8 @@ def train(corpus: Corpus, settings: TrainSettings, progress=None) -> TrainedMode
     finished = time.monotonic()
     return TrainedModel(
         vocabulary, tables, detector, threshold, quality,
-        counts={"files": len(corpus.files), "training_files": len(files), "lines": corpus.lines,
+        counts={"files": len(corpus.files), "background_files": len(background_files),
+                "training_files": len(files), "lines": corpus.lines,
                 "tokens": corpus.tokens, "vocabulary": len(vocabulary), "names": len(tables.names),
                 "calibration_files": len(held_files)},
         seconds={"vocabulary": round(counted - started, 2), "embeddings": round(embedded - counted, 2),

@@ -80,7 +80,8 @@ def command_train(args) -> int:
     policy = GatePolicy(tolerance=args.tolerance, force=args.force)
     try:
         result = train_repository(path.resolve(), store, settings, policy, keep=args.keep,
-                                  if_changed=args.if_changed, report=TrainReport(args.quiet))
+                                  if_changed=args.if_changed, report=TrainReport(args.quiet),
+                                  background=args.background)
     except NothingToLearn as error:
         raise UsageError(str(error)) from None
     except KeyboardInterrupt:
@@ -96,7 +97,8 @@ def command_train(args) -> int:
     quality = manifest.get("quality", {})
     lines = [
         f"model {result.model_id}: {result.reason}",
-        f"  files      {counts.get('files', 0):,} learned, skipped: {skipped}",
+        f"  files      {counts.get('files', 0):,} learned, skipped: {skipped}"
+        + (f"; {counts['background_files']:,} background files" if counts.get("background_files") else ""),
         f"  lines      {counts.get('lines', 0):,}",
         f"  tokens     {counts.get('tokens', 0):,}",
         f"  vocabulary {counts.get('vocabulary', 0):,} tokens, {counts.get('names', 0):,} candidate names",
@@ -271,6 +273,9 @@ def build_parser() -> argparse.ArgumentParser:
     train.add_argument("--tolerance", type=float, default=0.02,
                        help="largest drop in recovery@5 or recall the gate accepts (default 0.02)")
     train.add_argument("--keep", type=int, default=4, help="models to keep in the store (default 4)")
+    train.add_argument("--background", action="append", default=[], metavar="DIR",
+                       help="more code to learn general naming from, at a lower weight; 'stdlib' means the "
+                            "standard library of this Python (useful for small repositories; repeatable)")
     train.add_argument("--quiet", action="store_true", help="no progress on stderr")
     train.set_defaults(handler=command_train)
 
