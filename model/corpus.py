@@ -17,7 +17,7 @@ from .tokens import Token, language_for_path, lex
 
 MAX_FILE_BYTES = 1 << 20
 MAX_LINE_CHARS = 1000  # a longer line marks a minified or generated file
-CACHE_FORMAT = 1
+CACHE_FORMAT = 2
 
 DEFAULT_EXCLUDES = (
     "node_modules", "vendor", "third_party", "third-party", "build", "dist", "out", "target",
@@ -221,7 +221,7 @@ def _to_record(source: SourceFile) -> dict:
         "line": [t.line for t in source.tokens],
         "column": [t.column for t in source.tokens],
         "variables": [[v.name, v.kind, v.occurrences, v.scope_start, v.scope_end, v.function,
-                       v.public_parameter, sorted(v.bound_names)] for v in source.variables],
+                       v.public_parameter, sorted(v.bound_names), v.scope_kind] for v in source.variables],
     }
 
 
@@ -232,8 +232,8 @@ _KIND_BY_LETTER = {letter: kind for kind, letter in _LETTER_BY_KIND.items()}
 def _from_record(record: dict, path: str, digest: str) -> SourceFile:
     tokens = [Token(text, _KIND_BY_LETTER[letter], line, column)
               for text, letter, line, column in zip(record["text"], record["kind"], record["line"], record["column"])]
-    variables = [Variable(name, kind, occurrences, start, end, function, public, frozenset(bound))
-                 for name, kind, occurrences, start, end, function, public, bound in record["variables"]]
+    variables = [Variable(name, kind, occurrences, start, end, function, public, frozenset(bound), scope_kind)
+                 for name, kind, occurrences, start, end, function, public, bound, scope_kind in record["variables"]]
     return SourceFile(path, record["language"], digest, record["lines"], tokens, variables)
 
 

@@ -32,6 +32,7 @@ class Variable:
     function: str = ""
     public_parameter: bool = False
     bound_names: frozenset[str] = field(default_factory=frozenset)
+    scope_kind: str = "function"  # function, lambda, comprehension, or block (token-based languages)
 
     @property
     def binding(self) -> int:
@@ -238,6 +239,8 @@ def _python_variables(text: str, tokens: list[Token]) -> list[Variable]:
                 function=scope.function,
                 public_parameter=bool(is_parameter and public and name not in positional_only),
                 bound_names=bound,
+                scope_kind="function" if is_function else "lambda" if isinstance(scope.node, ast.Lambda)
+                else "comprehension",
             ))
     return variables
 
@@ -382,6 +385,7 @@ def _token_variables(tokens: list[Token], language: str) -> list[Variable]:
             scope_start=tokens[block.start].line,
             scope_end=tokens[block.end - 1].line if block.end > 0 else tokens[-1].line,
             bound_names=bound,
+            scope_kind="block",
         ))
     return variables
 

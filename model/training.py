@@ -226,7 +226,7 @@ def rename(source: SourceFile, variable: Variable, new_name: str) -> tuple[Sourc
         tokens[index] = type(tokens[index])(new_name, tokens[index].kind, tokens[index].line, tokens[index].column)
     renamed = Variable(new_name, variable.kind, variable.occurrences, variable.scope_start, variable.scope_end,
                        variable.function, variable.public_parameter,
-                       (variable.bound_names - {variable.name}) | {new_name})
+                       (variable.bound_names - {variable.name}) | {new_name}, variable.scope_kind)
     variables = [renamed if v is variable else v for v in source.variables]
     return SourceFile(source.path, source.language, source.digest, source.lines, tokens, variables), renamed
 

@@ -1,0 +1,85 @@
+"""Shared fixtures: real code to learn from, and models trained on it once per session."""
+
+from __future__ import annotations
+
+import shutil
+import subprocess
+import sys
+import sysconfig
+from pathlib import Path
+
+import pytest
+
+from cognomen.model import bundle
+from cognomen.model.corpus import Settings, TokenCache, discover, load_corpus
+from cognomen.model.persistence import load_scorer, save
+from cognomen.model.training import TrainSettings, train
+
+ROOT = Path(__file__).resolve().parents[1]
+DEMO = ROOT / "demo_workspace"
+FIXTURES = Path(__file__).resolve().parent / "fixtures"
+# The standard library of the running Python: real third-party code every machine has.
+STDLIB = Path(sysconfig.get_paths()["stdlib"])
+STDLIB_EXCLUDES = ["test/*", "*/test/*", "*/tests/*", "*/idle_test/*", "tests/*"]
+
+
+def stdlib_selection():
+    return discover(STDLIB, Settings(exclude=STDLIB_EXCLUDES))
+
+
+@pytest.fixture(scope="session")
+def stdlib_corpus(tmp_path_factory):
+    """The whole standard library, lexed once (test folders excluded)."""
+    cache = tmp_path_factory.mktemp("stdlib-cache")
+    return load_corpus(stdlib_selection(), TokenCache(cache))
+
+
+@pytest.fixture(scope="session")
+def stdlib_store(tmp_path_factory, stdlib_corpus):
+    """A model store trained on the standard library except a few held-out modules."""
+    store = tmp_path_factory.mktemp("stdlib-store")
+    held_out = {path for path in (f.path for f in stdlib_corpus.files) if path in HELD_OUT}
+    from cognomen.model.corpus import Corpus
+    training = Corpus([f for f in stdlib_corpus.files if f.path not in held_out], {})
+    trained = train(training, TrainSettings(epochs=3))
+    directory = save(store, trained, {"source_commit": None})
+    bundle.promote(store, directory.name)
+    return store
+
+
+# Modules the session model never sees, for end-to-end checks on unseen real code.
+HELD_OUT = {"shutil.py", "tarfile.py", "zipfile.py", "configparser.py", "csv.py"}
+
+
+@pytest.fixture(scope="session")
+def stdlib_scorer(stdlib_store):
+    scorer, _ = load_scorer(stdlib_store)
+    return scorer
+
+
+def run_cli(*args: str, cwd: Path | None = None, check: bool = False, input_text: str | None = None,
+            timeout: float = 600) -> subprocess.CompletedProcess:
+    """The real command line in a subprocess, as a person or CI would run it."""
+    result = subprocess.run([sys.executable, "-m", "cognomen", *args], cwd=cwd, capture_output=True, text=True,
+                            timeout=timeout, input=input_text)
+    if check and result.returncode != 0:
+        raise AssertionError(f"cognomen {' '.join(args)} exited {result.returncode}:\n{result.stderr}")
+    return result
+
+
+@pytest.fixture(scope="session")
+def demo_copy(tmp_path_factory):
+    """A git repository holding a copy of the demo workspace, with a trained model."""
+    target = tmp_path_factory.mktemp("demo") / "fernhill"
+    shutil.copytree(DEMO, target, ignore=shutil.ignore_patterns(".cognomen", "__pycache__", "changes"))
+    git(target, "init", "-q", "-b", "main")
+    git(target, "add", "-A")
+    git(target, "commit", "-q", "-m", "Fernhill controller and dashboard")
+    run_cli("train", "--quiet", "--background", "stdlib", str(target), check=True)
+    return target
+
+
+def git(cwd: Path, *args: str) -> str:
+    result = subprocess.run(["git", "-c", "user.name=Test", "-c", "user.email=test@example.invalid", *args],
+                            cwd=cwd, capture_output=True, text=True, check=True)
+    return result.stdout

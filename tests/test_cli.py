@@ -1,0 +1,81 @@
+"""The command line as people and other programs use it."""
+
+import json
+
+from .conftest import DEMO, run_cli
+
+
+def test_train_summary_and_check_json(demo_copy):
+    result = run_cli("check", "--format", "json", "fernhill/alerts.py", "fernhill/readings.py", cwd=demo_copy)
+    assert result.returncode == 0, result.stderr
+    findings = json.loads(result.stdout)["findings"]
+    assert {"path", "line", "column", "end_line", "end_column", "name", "score", "threshold",
+            "suggestions"} <= set(findings[0])
+    odd = [f for f in findings if f["name"] == "valve"]
+    assert odd, "the deliberately misnamed zone in alerts.py is flagged"
+    assert odd[0]["suggestions"][0]["name"] == "zone"
+    assert all({"path", "line"} == set(e) for e in odd[0]["suggestions"][0]["evidence"])
+    assert odd[0]["line"] == 27 and odd[0]["column"] == 9 and odd[0]["end_column"] == 14
+
+
+def test_check_text_reads_like_a_compiler_message(demo_copy):
+    result = run_cli("check", "fernhill/alerts.py", cwd=demo_copy)
+    assert result.returncode == 0
+    assert "fernhill/alerts.py:27:9: `valve` does not fit how it is used here; the team would call it `zone`" \
+        in result.stdout
+
+
+def test_suggest_many_positions(demo_copy):
+    result = run_cli("suggest", "--format", "json", "fernhill/alerts.py:27:10", "fernhill/alerts.py:1:1",
+                     cwd=demo_copy)
+    assert result.returncode == 0, result.stderr
+    first, second = json.loads(result.stdout)["results"]
+    assert first["name"] == "valve" and first["suggestions"][0]["name"] == "zone"
+    assert second["suggestions"] == [] and "no local variable" in second["reason"]
+
+
+def test_unsupported_file_gets_a_note(demo_copy):
+    text = run_cli("check", "README.md", cwd=demo_copy)
+    assert text.returncode == 0 and "note: README.md: not a supported language" in text.stdout
+    as_json = run_cli("check", "--format", "json", "README.md", cwd=demo_copy)
+    assert json.loads(as_json.stdout) == {"findings": []}
+
+
+def test_missing_model(tmp_path):
+    source = tmp_path / "a.py"
+    source.write_text("x = 1\n")
+    result = run_cli("--model-dir", str(tmp_path / "none"), "check", str(source))
+    assert result.returncode == 2
+    assert result.stderr.strip() == f"cognomen: no model found in {tmp_path / 'none'}; run cognomen train"
+
+
+def test_nothing_to_learn(tmp_path):
+    result = run_cli("train", str(tmp_path))
+    assert result.returncode == 2
+    assert f"nothing to learn from: 0 source files under {tmp_path}" in result.stderr
+    assert "Traceback" not in result.stderr
+
+
+def test_bad_input_never_tracebacks(demo_copy, tmp_path):
+    cases = [
+        ("check", "no/such/file.py"),
+        ("suggest", "fernhill/alerts.py:x:1"),
+        ("suggest", "fernhill/alerts.py"),
+        ("train", "no/such/dir"),
+        ("models", "use", "nope"),
+        ("frobnicate",),
+    ]
+    for args in cases:
+        result = run_cli(*args, cwd=demo_copy)
+        assert result.returncode == 2, args
+        assert "Traceback" not in result.stderr, args
+    binary = tmp_path / "b.py"
+    binary.write_bytes(b"\0\1\2")
+    result = run_cli("check", str(binary), cwd=demo_copy)
+    assert result.returncode == 2 and "binary" in result.stderr
+
+
+def test_models_lists_the_current_model(demo_copy):
+    result = run_cli("models", "--format", "json", cwd=demo_copy)
+    listing = json.loads(result.stdout)
+    assert listing["current"] == listing["models"][0]["model_id"]
