@@ -12,7 +12,7 @@ from .scoring import Detector, NameTables, Scorer, Weights
 from .training import TrainedModel
 from .vocabulary import Vocabulary
 
-_TABLE_ARRAYS = ("input_vectors", "output_vectors", "name_counts", "name_vocab_rows", "feature_keys",
+_TABLE_ARRAYS = ("input_vectors", "output_vectors", "name_counts", "name_vocab_rows", "name_suggestable", "feature_keys",
                  "feature_totals", "context_indptr", "context_columns", "context_counts", "evidence_rows",
                  "evidence_path_ids", "evidence_lines", "evidence_vectors")
 
@@ -71,6 +71,7 @@ def _check_shapes(tables: NameTables) -> None:
         "output_vectors": (tables.output_vectors.shape, (rows, dimensions)),
         "name_counts": (tables.name_counts.shape, (names,)),
         "name_vocab_rows": (tables.name_vocab_rows.shape, (names,)),
+        "name_suggestable": (tables.name_suggestable.shape, (names,)),
         "context_indptr": (tables.context_indptr.shape, (len(tables.feature_keys) + 1,)),
         "context_counts": (tables.context_counts.shape, tables.context_columns.shape),
         "evidence_vectors": (tables.evidence_vectors.shape, (len(tables.evidence_rows), dimensions)),

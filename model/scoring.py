@@ -80,6 +80,7 @@ class NameTables:
     evidence_lines: np.ndarray  # (E,) int32
     evidence_vectors: np.ndarray  # (E, d) float32
     total_occurrences: float = 1.0
+    name_suggestable: np.ndarray | None = None  # (C,) bool: may be offered as a new name
     variables_per_language: dict[str, int] = field(default_factory=dict)
 
     def judges(self, language: str) -> bool:
@@ -106,7 +107,9 @@ class NameTables:
             for row in rows:
                 name = self.names[row]
                 self.static_allowed[row] = (name not in reserved and name not in IGNORED_NAMES
-                                            and fits_style(name, style))
+                                            and not name.startswith("_") and fits_style(name, style))
+        if self.name_suggestable is not None and len(self.name_suggestable) == len(self.names):
+            self.static_allowed &= np.asarray(self.name_suggestable, dtype=bool)
         self.evidence_start = np.searchsorted(self.evidence_rows, np.arange(len(self.names) + 1))
         self.log_counts = np.log(self.name_counts.astype(np.float64) + 1.0)
         self.log_count_smoothed = np.log(self.name_counts.astype(np.float64) + SMOOTHING)

@@ -135,6 +135,12 @@ def build_tables(files: list[SourceFile], vocabulary: Vocabulary, inputs: np.nda
             languages.append(language)
             counts.append(count)
     row_by_name = {(lang, name): row for row, (lang, name) in enumerate(zip(languages, names))}
+    # With a background corpus, suggestions come from names the team itself writes somewhere.
+    team_words: set[str] = set()
+    for source in files:
+        if source.path not in background:
+            team_words.update(t.text for t in source.tokens if t.kind == "name")
+    suggestable = np.array([not background or name in team_words for name in names], dtype=bool)
     vocabulary_size = len(vocabulary)
     self_id, pad_id = vocabulary.id("<self>"), vocabulary.id("<pad>")
     key_parts, row_parts, weight_parts = [], [], []
@@ -196,6 +202,7 @@ def build_tables(files: list[SourceFile], vocabulary: Vocabulary, inputs: np.nda
         vocabulary=vocabulary, input_vectors=inputs, output_vectors=outputs, names=names,
         name_languages=languages, name_counts=np.array(counts, dtype=np.float32),
         name_vocab_rows=np.array([vocabulary.id(n) for n in names], dtype=np.int32), styles=styles,
+        name_suggestable=suggestable,
         feature_keys=feature_keys.astype(np.int64), feature_totals=feature_totals, context_indptr=indptr,
         context_columns=pair_rows.astype(np.int32), context_counts=pair_counts.astype(np.float32),
         evidence_rows=np.array(evidence_rows, dtype=np.int32), evidence_paths=list(paths),
