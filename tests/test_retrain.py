@@ -1,0 +1,96 @@
+"""The weekly retrain: skip when unchanged, quality gate, rollback, pruning, crash safety."""
+
+import json
+import os
+import shutil
+import signal
+import subprocess
+import sys
+import time
+
+import pytest
+
+from cognomen.model import bundle
+from cognomen.model.persistence import load_scorer
+from cognomen.model.pipeline import GatePolicy, gate
+
+from .conftest import DEMO, git, run_cli
+
+
+@pytest.fixture()
+def repo(tmp_path):
+    target = tmp_path / "repo"
+    shutil.copytree(DEMO, target, ignore=shutil.ignore_patterns(".cognomen", "changes"))
+    git(target, "init", "-q", "-b", "main")
+    git(target, "add", "-A")
+    git(target, "commit", "-q", "-m", "start")
+    return target
+
+
+def models(repo):
+    return json.loads(run_cli("models", "--format", "json", cwd=repo, check=True).stdout)
+
+
+def test_if_changed_skips_an_unchanged_repository(repo):
+    run_cli("train", "--quiet", cwd=repo, check=True)
+    first = bundle.current_model_id(repo / ".cognomen")
+    result = run_cli("train", "--quiet", "--if-changed", cwd=repo, check=True)
+    assert "nothing to do" in result.stdout
+    assert bundle.current_model_id(repo / ".cognomen") == first
+    (repo / "fernhill" / "extra.py").write_text("def double(value):\n    return value * 2\n")
+    run_cli("train", "--quiet", "--if-changed", cwd=repo, check=True)
+    assert bundle.current_model_id(repo / ".cognomen") != first
+
+
+def test_gate_refuses_a_weak_model_and_force_promotes_it(repo):
+    run_cli("train", "--quiet", cwd=repo, check=True)
+    good = bundle.current_model_id(repo / ".cognomen")
+    weak = run_cli("train", "--quiet", "--vocabulary-size", "12", cwd=repo)
+    assert weak.returncode == 3, weak.stdout + weak.stderr
+    assert "kept the current model: recovery@5" in weak.stdout
+    assert bundle.current_model_id(repo / ".cognomen") == good
+    forced = run_cli("train", "--quiet", "--vocabulary-size", "12", "--force", cwd=repo)
+    assert forced.returncode == 0
+    assert bundle.current_model_id(repo / ".cognomen") != good
+    back = run_cli("models", "use", good, cwd=repo)
+    assert back.returncode == 0 and bundle.current_model_id(repo / ".cognomen") == good
+    listing = models(repo)
+    assert listing["current"] == good and len(listing["models"]) == 3
+
+
+def test_gate_rule():
+    current = {"recovery_at_5": 0.40, "recall_at_threshold": 0.20}
+    assert gate({"recovery_at_5": 0.39, "recall_at_threshold": 0.20}, current, GatePolicy(0.02))[0]
+    refused, reason = gate({"recovery_at_5": 0.30, "recall_at_threshold": 0.20}, current, GatePolicy(0.02))
+    assert not refused and "recovery@5 fell from 0.400 to 0.300" in reason
+    assert gate({"recovery_at_5": 0.30}, current, GatePolicy(0.02, force=True))[0]
+    assert gate({"recovery_at_5": 0.1}, {}, GatePolicy())[0], "the first model always passes"
+
+
+def test_pruning_keeps_the_newest(repo):
+    for _ in range(3):
+        run_cli("train", "--quiet", "--force", "--keep", "2", cwd=repo, check=True)
+    listing = models(repo)
+    assert len(listing["models"]) == 2
+    assert listing["current"] == listing["models"][0]["model_id"]
+
+
+def test_kill_at_any_moment_leaves_a_loadable_current_model(repo):
+    run_cli("train", "--quiet", cwd=repo, check=True)
+    store = repo / ".cognomen"
+    for delay in (0.3, 0.8, 1.2, 1.6, 2.0, 2.4, 2.8, 3.5):
+        process = subprocess.Popen([sys.executable, "-m", "cognomen", "train", "--quiet", "--force"], cwd=repo,
+                                   stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL, start_new_session=True)
+        time.sleep(delay)
+        try:
+            os.killpg(process.pid, signal.SIGKILL)
+        except ProcessLookupError:
+            pass
+        process.wait()
+        scorer, loaded = load_scorer(store)  # never raises: current always names a whole model
+        assert loaded.model_id == bundle.current_model_id(store)
+    leftovers = [p.name for p in (store / "models").iterdir() if p.name.startswith(".incomplete")]
+    complete = [p for p in (store / "models").iterdir() if not p.name.startswith(".")]
+    for model in complete:
+        bundle.load_model(model)  # every visible model is whole
+    assert len(leftovers) <= 8
