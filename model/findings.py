@@ -6,7 +6,7 @@ from dataclasses import dataclass, field
 
 from .corpus import SourceFile, analyse
 from .scopes import Variable
-from .scoring import IGNORED_NAMES, Judgement, Scorer, Suggestion, token_ids
+from .scoring import IGNORED_NAMES, Judgement, Scorer, Suggestion
 from .tokens import language_for_path
 
 
@@ -66,12 +66,9 @@ def check_source(scorer: Scorer, source: SourceFile, threshold: float | None = N
                  flagged_only: bool = True) -> list[Finding]:
     """Every variable whose name does not fit its use (or every judged variable, if asked)."""
     limit = scorer.threshold if threshold is None else threshold
-    ids = token_ids(source, scorer.tables.vocabulary)
     findings = []
-    for variable in source.variables:
-        if variable.name in IGNORED_NAMES:
-            continue
-        judgement = scorer.judge(source, variable, ids)
+    variables = [v for v in source.variables if v.name not in IGNORED_NAMES]
+    for judgement in scorer.judge_many(source, variables):
         finding = _finding(source, judgement, scorer, limit)
         if finding.flagged or not flagged_only:
             findings.append(finding)

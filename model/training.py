@@ -37,7 +37,7 @@ class TrainSettings:
     negative: int = 5
     seed: int = 1
     workers: int = field(default_factory=lambda: os.cpu_count() or 1)
-    names_per_language: int = 20_000
+    names_per_language: int = 5_000
     flag_budget: float = 1.0  # flags per 1,000 non-blank lines of clean code
     calibration_share: float = 0.15
     calibration_files: int = 200
@@ -125,22 +125,27 @@ def build_tables(files: list[SourceFile], vocabulary: Vocabulary, inputs: np.nda
         for variable in source.variables:
             if variable.name not in IGNORED_NAMES and variable.name in vocabulary.index:
                 counter[variable.name] += weight * min(len(variable.occurrences), 24)
+    # With a background corpus, candidates are names the team itself writes somewhere: the
+    # background lends its contexts, never its own vocabulary of names.
+    team_words: set[str] | None = None
+    if background:
+        team_words = set()
+        for source in files:
+            if source.path not in background:
+                team_words.update(t.text for t in source.tokens if t.kind == "name")
     names, languages, counts = [], [], []
     styles = {}
     for language in sorted(per_language):
         counter = per_language[language]
         styles[language] = dominant_style(counter)
-        for name, count in sorted(counter.items(), key=lambda item: (-item[1], item[0]))[:settings.names_per_language]:
+        ranked = sorted(((name, count) for name, count in counter.items()
+                         if team_words is None or name in team_words), key=lambda item: (-item[1], item[0]))
+        for name, count in ranked[:settings.names_per_language]:
             names.append(name)
             languages.append(language)
             counts.append(count)
     row_by_name = {(lang, name): row for row, (lang, name) in enumerate(zip(languages, names))}
-    # With a background corpus, suggestions come from names the team itself writes somewhere.
-    team_words: set[str] = set()
-    for source in files:
-        if source.path not in background:
-            team_words.update(t.text for t in source.tokens if t.kind == "name")
-    suggestable = np.array([not background or name in team_words for name in names], dtype=bool)
+    suggestable = np.ones(len(names), dtype=bool)
     vocabulary_size = len(vocabulary)
     self_id, pad_id = vocabulary.id("<self>"), vocabulary.id("<pad>")
     key_parts, row_parts, weight_parts = [], [], []
