@@ -2,11 +2,14 @@
 
 from __future__ import annotations
 
+import re
 from dataclasses import dataclass, field
+
+import numpy as np
 
 from .corpus import SourceFile, analyse
 from .scopes import Variable
-from .scoring import IGNORED_NAMES, Judgement, Scorer, Suggestion
+from .scoring import IGNORED_NAMES, Judgement, Scorer, Suggestion, allowed_mask, rank_candidates, token_ids
 from .tokens import language_for_path
 
 
@@ -99,3 +102,61 @@ def suggest_at(scorer: Scorer, source: SourceFile, line: int, column: int,
     if not finding.suggestions:
         return finding, "the model knows no names for this language yet"
     return finding, ""
+
+
+HOLE = "cognomen_new_name"
+_IDENTIFIER_END = re.compile(r"[A-Za-z_$][A-Za-z0-9_$]*$")
+_IDENTIFIER_START = re.compile(r"^[A-Za-z0-9_$]*")
+_BINDING_BEFORE = {
+    "python": [re.compile(r"^\s*$"), re.compile(r"\bfor\s+([A-Za-z_]\w*\s*,\s*)*$"),
+               re.compile(r"\b(as)\s+$"), re.compile(r"\bdef\s+\w+\s*\((.*,)?\s*\**$")],
+    "javascript": [re.compile(r"\b(let|const|var)\s+$"), re.compile(r"\bfunction\s*\w*\s*\(([^)]*,)?\s*$")],
+    "typescript": [re.compile(r"\b(let|const|var)\s+$"), re.compile(r"\bfunction\s*\w*\s*\(([^)]*,)?\s*$")],
+    "go": [re.compile(r"^\s*$"), re.compile(r"\bvar\s+$"), re.compile(r"\bfor\s+$")],
+}
+
+
+def complete_binding(scorer: Scorer, text: str, path: str, line: int, column: int,
+                     language: str | None = None, limit: int = 10) -> list[Suggestion] | None:
+    """Names for a variable being bound at a position, ranked by the code around it.
+
+    None when the position is not where a new variable is named (an assignment target,
+    parameter or loop target in Python; let/const/var in JavaScript and TypeScript; Go).
+    """
+    language = language or language_for_path(path.rsplit("/", 1)[-1])
+    lines = text.split("\n")
+    if language not in _BINDING_BEFORE or not 0 < line <= len(lines):
+        return None
+    current = lines[line - 1]
+    before, after = current[: column - 1], current[column - 1:]
+    typed = _IDENTIFIER_END.search(before)
+    prefix = typed.group(0) if typed else ""
+    head = before[: len(before) - len(prefix)]
+    if not any(pattern.search(head) for pattern in _BINDING_BEFORE[language]):
+        return None
+    rest = _IDENTIFIER_START.match(after).group(0)
+    lines[line - 1] = head + HOLE + after[len(rest):]
+    source = analyse("\n".join(lines), path, language)
+    variable = next((v for v in source.variables if v.name == HOLE), None)
+    if variable is None:
+        indices = [i for i, t in enumerate(source.tokens) if t.text == HOLE]
+        if not indices:
+            return None
+        names = frozenset(t.text for t in source.tokens if t.kind == "name")
+        variable = Variable(HOLE, "local", indices, line, line, bound_names=names)
+    ranking = rank_candidates(scorer.tables, source, variable, token_ids(source, scorer.tables.vocabulary),
+                              scorer.weights)
+    if ranking is None:
+        return []
+    # Names used later in this scope but not bound before the cursor are what is being bound now.
+    hole = variable.occurrences[0]
+    later = {v.name for v in source.variables if v.name != HOLE and v.occurrences[0] > hole
+             and v.scope_start <= line <= v.scope_end}
+    allowed = allowed_mask(scorer.tables, ranking, variable.bound_names - later - {HOLE}, HOLE)
+    if prefix:
+        lowered = prefix.lower()
+        allowed &= np.array([scorer.tables.names[r].lower().startswith(lowered) for r in ranking.rows], dtype=bool)
+    if later:
+        boost = np.array([scorer.tables.names[r] in later for r in ranking.rows], dtype=bool)
+        ranking.combined = np.where(boost, ranking.combined + 100.0, ranking.combined)
+    return scorer.suggestions(ranking, allowed, limit)

@@ -59,7 +59,17 @@ def command_review(args) -> int:
     return FLAGGED if fails(result, args.fail_on) else OK
 
 
+def command_serve(args) -> int:
+    from .lsp import serve
+
+    return serve(args.model_dir, args.tcp)
+
+
 def register(commands) -> None:
+    serve = commands.add_parser("serve", help="the language server on stdin/stdout")
+    serve.add_argument("--tcp", metavar="HOST:PORT", help="listen on TCP instead of stdin/stdout")
+    serve.set_defaults(handler=command_serve)
+
     review = commands.add_parser("review", help="flag odd names that a change introduced or touched")
     review.add_argument("--base", default="HEAD", help="compare against this revision (default HEAD)")
     review.add_argument("--head", help="the change's last revision (default: the working tree)")

@@ -1,0 +1,493 @@
+"""`cognomen serve`: name hints, rename quick fixes, hover and completion over the Language Server Protocol."""
+
+from __future__ import annotations
+
+import asyncio
+import functools
+import logging
+import time
+from concurrent.futures import ThreadPoolExecutor
+from dataclasses import dataclass
+from pathlib import Path
+from urllib.parse import unquote, urlparse
+
+from lsprotocol import types
+from pygls.exceptions import JsonRpcInvalidParams
+from pygls.lsp.server import LanguageServer
+from pygls.workspace.position_codec import ServerTextPosition
+
+from cognomen import __version__
+from cognomen.model import bundle
+from cognomen.model.bundle import ModelError
+from cognomen.model.corpus import SourceFile
+from cognomen.model.findings import Finding, analyse_text, check_source, complete_binding, suggest_at
+from cognomen.model.persistence import load_scorer
+from cognomen.model.scoring import Scorer
+from cognomen.model.tokens import language_for_path
+
+from .review import level_of
+from .settings import LEVELS, ServerSettings, parse_settings
+
+log = logging.getLogger("cognomen.server")
+DIAGNOSTIC_CODE = "name-does-not-fit"
+SEVERITY = {"error": types.DiagnosticSeverity.Error, "warning": types.DiagnosticSeverity.Warning,
+            "information": types.DiagnosticSeverity.Information, "hint": types.DiagnosticSeverity.Hint}
+
+
+@dataclass
+class Analysis:
+    """The last checked state of an open document."""
+
+    version: int | None
+    source: SourceFile
+    findings: list[Finding]
+
+
+class ClientLogHandler(logging.Handler):
+    """Forwards cognomen's own log records to the editor's log (never other libraries')."""
+
+    def __init__(self, server: "NameServer"):
+        super().__init__(logging.INFO)
+        self.server = server
+
+    def emit(self, record: logging.LogRecord) -> None:
+        kind = types.MessageType.Error if record.levelno >= logging.ERROR else \
+            types.MessageType.Warning if record.levelno >= logging.WARNING else types.MessageType.Info
+        try:
+            self.server.window_log_message(types.LogMessageParams(type=kind, message=self.format(record)))
+        except Exception:  # the client may be gone; logging must never fail a request
+            pass
+
+
+class NameServer(LanguageServer):
+    """The language server: holds settings, the loaded model and the last analysis of each document."""
+
+    def __init__(self, model_dir: str | None = None):
+        super().__init__("cognomen", __version__)
+        self.command_line_model_dir = model_dir
+        self.settings = ServerSettings()
+        self.scorer: Scorer | None = None
+        self.model_id: str | None = None
+        self.store: Path | None = None
+        self.analyses: dict[str, Analysis] = {}
+        self.pending: dict[str, asyncio.Task] = {}
+        self.analysis_pool = ThreadPoolExecutor(max_workers=1, thread_name_prefix="cognomen-analysis")
+        self.told_no_model = False
+        self.watcher: asyncio.Task | None = None
+        self.last_diagnostics_at: dict[str, float] = {}
+        self.model_ready = asyncio.Event()  # set once the first attempt to load a model has ended
+
+    # --- model ----------------------------------------------------------------------------
+
+    def resolve_store(self) -> Path | None:
+        chosen = self.settings.model_dir or self.command_line_model_dir
+        if chosen:
+            return Path(chosen).expanduser()
+        root = self.workspace.root_path if self.workspace else None
+        return Path(root) / ".cognomen" if root else None
+
+    async def load_model(self, announce: bool = True) -> None:
+        """Load the current model off the event loop, with work-done progress; keep the old one on failure."""
+        try:
+            await self._load_model(announce)
+        finally:
+            self.model_ready.set()
+
+    async def _load_model(self, announce: bool) -> None:
+        store = self.resolve_store()
+        self.store = store
+        if store is None or bundle.current_model_id(store) is None:
+            self.scorer, self.model_id = None, None
+            if not self.told_no_model:
+                self.told_no_model = True
+                where = store or "the workspace"
+                self.window_show_message(types.ShowMessageParams(
+                    type=types.MessageType.Info,
+                    message=f"cognomen: no model found in {where}; run `cognomen train` in the repository to "
+                            f"get name hints"))
+            return
+        token = f"cognomen-load-{time.monotonic_ns()}"
+        progress = announce and self._supports_progress()
+        if progress:
+            try:
+                await self.work_done_progress.create_async(token)
+                self.work_done_progress.begin(token, types.WorkDoneProgressBegin(
+                    title="cognomen", message="loading the naming model"))
+            except Exception:
+                progress = False
+        try:
+            loop = asyncio.get_running_loop()
+            scorer, loaded = await loop.run_in_executor(self.analysis_pool, load_scorer, store)
+        except ModelError as error:
+            log.warning("model refused: %s", error)
+            self.window_show_message(types.ShowMessageParams(
+                type=types.MessageType.Warning, message=f"cognomen: {error}"
+                + ("; keeping the model already loaded" if self.scorer else "")))
+            return
+        finally:
+            if progress:
+                self.work_done_progress.end(token, types.WorkDoneProgressEnd(message="done"))
+        self.scorer, self.model_id = scorer, loaded.model_id
+        self.told_no_model = False
+        log.info("loaded model %s from %s", loaded.model_id, store)
+        for uri in list(self.analyses):
+            self.schedule(uri, delay=0.0)
+
+    def _supports_progress(self) -> bool:
+        capabilities = self.client_capabilities
+        window = capabilities.window if capabilities else None
+        return bool(window and window.work_done_progress)
+
+    async def watch_model(self) -> None:
+        """Swap in a newly promoted model without a restart."""
+        while True:
+            await asyncio.sleep(self.settings.reload_seconds)
+            store = self.resolve_store()
+            if store is None:
+                continue
+            current = bundle.current_model_id(store)
+            if current and current != self.model_id:
+                log.info("a new model %s was promoted; loading it", current)
+                await self.load_model()
+
+    # --- diagnostics ----------------------------------------------------------------------
+
+    def schedule(self, uri: str, delay: float | None = None) -> None:
+        """Check a document after a quiet time; a newer edit cancels the older check."""
+        previous = self.pending.pop(uri, None)
+        if previous is not None:
+            previous.cancel()
+        wait = self.settings.debounce_ms / 1000 if delay is None else delay
+        self.pending[uri] = asyncio.ensure_future(self._check_later(uri, wait))
+
+    async def _check_later(self, uri: str, wait: float) -> None:
+        try:
+            await asyncio.sleep(wait)
+            await self.model_ready.wait()
+            document = self.workspace.text_documents.get(uri)
+            if document is None:
+                return
+            version, text = document.version, document.source
+            loop = asyncio.get_running_loop()
+            analysis = await loop.run_in_executor(self.analysis_pool, self.analyse, uri, text, version)
+            document = self.workspace.text_documents.get(uri)
+            if document is None or document.version != version:
+                return  # closed or edited meanwhile: a newer check is on its way
+            if analysis is None:
+                self.analyses.pop(uri, None)
+                self.text_document_publish_diagnostics(types.PublishDiagnosticsParams(uri=uri, diagnostics=[]))
+                return
+            self.analyses[uri] = analysis
+            self.text_document_publish_diagnostics(types.PublishDiagnosticsParams(
+                uri=uri, version=version, diagnostics=self.diagnostics(uri, analysis)))
+            self.last_diagnostics_at[uri] = time.monotonic()
+        except asyncio.CancelledError:
+            pass
+        except Exception:
+            log.exception("checking %s failed", uri)
+        finally:
+            if self.pending.get(uri) is asyncio.current_task():
+                self.pending.pop(uri, None)
+
+    def analyse(self, uri: str, text: str, version: int | None) -> Analysis | None:
+        """Lex, scope and judge a document (runs off the event loop)."""
+        path = path_of(uri)
+        language = language_for_path(path.rsplit("/", 1)[-1])
+        if language is None or language not in self.settings.languages:
+            return None
+        if len(text) > self.settings.max_file_size:
+            log.info("%s has %d characters, over the %d limit; no hints for it", path, len(text),
+                     self.settings.max_file_size)
+            return None
+        source = analyse_text(text, self.relative(path), language)
+        if source is None:
+            return None
+        findings = check_source(self.scorer, source, self.settings.threshold) if self.scorer else []
+        minimum = LEVELS.index(self.settings.minimum_level)
+        findings = [f for f in findings if LEVELS.index(level_of(f)) >= minimum]
+        return Analysis(version, source, findings)
+
+    def relative(self, path: str) -> str:
+        root = self.workspace.root_path if self.workspace else None
+        if root:
+            try:
+                return str(Path(path).relative_to(root))
+            except ValueError:
+                pass
+        return path
+
+    def diagnostics(self, uri: str, analysis: Analysis) -> list[types.Diagnostic]:
+        document = self.workspace.get_text_document(uri)
+        found = []
+        for finding in analysis.findings:
+            names = ", ".join(f"`{s.name}`" for s in finding.suggestions[:3])
+            related = [types.DiagnosticRelatedInformation(
+                location=types.Location(uri=self.uri_for(path), range=line_range(line)),
+                message=f"`{suggestion.name}` used in a similar context")
+                for suggestion in finding.suggestions[:3] for path, line in suggestion.evidence[:2]]
+            found.append(types.Diagnostic(
+                range=client_range(document, finding.line, finding.column, len(finding.name)),
+                message=f"`{finding.name}` does not fit how it is used here; the team would call it {names}",
+                severity=SEVERITY[self.settings.severity],
+                code=DIAGNOSTIC_CODE,
+                source="cognomen",
+                related_information=related or None,
+                data={"name": finding.name, "line": finding.line, "column": finding.column},
+            ))
+        return found
+
+    def uri_for(self, path: str) -> str:
+        root = self.workspace.root_path if self.workspace else None
+        full = Path(path) if Path(path).is_absolute() or not root else Path(root) / path
+        return full.as_uri()
+
+    # --- requests -------------------------------------------------------------------------
+
+    def fresh_source(self, uri: str) -> SourceFile | None:
+        """The document as it is now: the last analysis when current, else analysed afresh."""
+        document = self.workspace.text_documents.get(uri)
+        if document is None:
+            return None
+        analysis = self.analyses.get(uri)
+        if analysis is not None and analysis.version == document.version:
+            return analysis.source
+        fresh = self.analyse(uri, document.source, document.version)
+        return fresh.source if fresh else None
+
+    def server_position(self, uri: str, position: types.Position) -> tuple[int, int]:
+        """A client position as a 1-based line and 1-based character column; invalid params if outside."""
+        document = self.workspace.get_text_document(uri)
+        lines = document.lines
+        if position.line < 0 or position.character < 0 or position.line > len(lines) or (
+                position.line == len(lines) and position.character > 0):
+            raise JsonRpcInvalidParams(f"position {position.line}:{position.character} is outside the document")
+        if position.line < len(lines) and position.character > document.position_codec.client_num_units(
+                lines[position.line].rstrip("\r\n")):
+            raise JsonRpcInvalidParams(f"position {position.line}:{position.character} is past the end of its line")
+        converted = document.position_from_client_units(position)
+        return converted.line + 1, converted.character + 1
+
+
+def path_of(uri: str) -> str:
+    parsed = urlparse(uri)
+    return unquote(parsed.path) if parsed.scheme == "file" else uri
+
+
+def client_range(document, line: int, column: int, length: int) -> types.Range:
+    start = document.position_to_client_units(ServerTextPosition(line - 1, column - 1))
+    end = document.position_to_client_units(ServerTextPosition(line - 1, column - 1 + length))
+    return types.Range(start=start, end=end)
+
+
+def line_range(line: int) -> types.Range:
+    return types.Range(start=types.Position(line=line - 1, character=0),
+                       end=types.Position(line=line - 1, character=0))
+
+
+def guarded(empty):
+    """One failing feature must not take the others down: log it and answer with nothing.
+
+    Requests that arrive while the first model is still loading wait for it.
+    """
+    def wrap(handler):
+        @functools.wraps(handler)
+        async def run(server: NameServer, params):
+            await server.model_ready.wait()
+            try:
+                return handler(server, params)
+            except JsonRpcInvalidParams:
+                raise
+            except Exception:
+                log.exception("%s failed", handler.__name__)
+                return empty
+        return run
+    return wrap
+
+
+def build_server(model_dir: str | None = None) -> NameServer:
+    server = NameServer(model_dir)
+
+    @server.feature(types.INITIALIZE)
+    def initialize(ls: NameServer, params: types.InitializeParams) -> None:
+        apply_settings(ls, params.initialization_options)
+
+    @server.feature(types.INITIALIZED)
+    async def initialized(ls: NameServer, params: types.InitializedParams) -> None:
+        await ls.load_model()
+        ls.watcher = asyncio.ensure_future(ls.watch_model())
+
+    @server.feature(types.WORKSPACE_DID_CHANGE_CONFIGURATION)
+    async def configuration_changed(ls: NameServer, params: types.DidChangeConfigurationParams) -> None:
+        store_before = ls.resolve_store()
+        apply_settings(ls, params.settings)
+        if ls.resolve_store() != store_before:
+            ls.told_no_model = False
+            await ls.load_model()
+        for uri in list(ls.workspace.text_documents):
+            ls.schedule(uri, delay=0.0)
+
+    @server.feature(types.TEXT_DOCUMENT_DID_OPEN)
+    def did_open(ls: NameServer, params: types.DidOpenTextDocumentParams) -> None:
+        ls.schedule(params.text_document.uri, delay=0.0)
+
+    @server.feature(types.TEXT_DOCUMENT_DID_CHANGE)
+    def did_change(ls: NameServer, params: types.DidChangeTextDocumentParams) -> None:
+        ls.schedule(params.text_document.uri)
+
+    @server.feature(types.TEXT_DOCUMENT_DID_SAVE)
+    def did_save(ls: NameServer, params: types.DidSaveTextDocumentParams) -> None:
+        ls.schedule(params.text_document.uri, delay=0.0)
+
+    @server.feature(types.TEXT_DOCUMENT_DID_CLOSE)
+    def did_close(ls: NameServer, params: types.DidCloseTextDocumentParams) -> None:
+        uri = params.text_document.uri
+        pending = ls.pending.pop(uri, None)
+        if pending:
+            pending.cancel()
+        ls.analyses.pop(uri, None)
+        ls.text_document_publish_diagnostics(types.PublishDiagnosticsParams(uri=uri, diagnostics=[]))
+
+    @server.feature(types.TEXT_DOCUMENT_CODE_ACTION, types.CodeActionOptions(
+        code_action_kinds=[types.CodeActionKind.QuickFix, types.CodeActionKind.RefactorRewrite]))
+    @guarded([])
+    def code_action(ls: NameServer, params: types.CodeActionParams) -> list[types.CodeAction]:
+        return rename_actions(ls, params)
+
+    @server.feature(types.TEXT_DOCUMENT_HOVER)
+    @guarded(None)
+    def hover(ls: NameServer, params: types.HoverParams) -> types.Hover | None:
+        return hover_for(ls, params.text_document.uri, params.position)
+
+    @server.feature(types.TEXT_DOCUMENT_COMPLETION, types.CompletionOptions(trigger_characters=[" "]))
+    @guarded(None)
+    def completion(ls: NameServer, params: types.CompletionParams) -> types.CompletionList | None:
+        return completions_for(ls, params.text_document.uri, params.position)
+
+    @server.feature(types.SHUTDOWN)
+    def shutdown(ls: NameServer, params) -> None:
+        if ls.watcher:
+            ls.watcher.cancel()
+        for task in ls.pending.values():
+            task.cancel()
+        ls.analysis_pool.shutdown(wait=False, cancel_futures=True)
+
+    return server
+
+
+def apply_settings(ls: NameServer, raw) -> None:
+    ls.settings, problems = parse_settings(raw, ls.settings)
+    for problem in problems:
+        log.warning("%s", problem)
+        ls.window_show_message(types.ShowMessageParams(type=types.MessageType.Warning,
+                                                       message=f"cognomen: {problem}"))
+
+
+def _finding_at(ls: NameServer, uri: str, position: types.Position) -> tuple[SourceFile, Finding] | None:
+    if ls.scorer is None:
+        return None
+    line, column = ls.server_position(uri, position)
+    source = ls.fresh_source(uri)
+    if source is None:
+        return None
+    finding, _ = suggest_at(ls.scorer, source, line, column, ls.settings.threshold)
+    return (source, finding) if finding is not None else None
+
+
+def rename_actions(ls: NameServer, params: types.CodeActionParams) -> list[types.CodeAction]:
+    uri = params.text_document.uri
+    found = _finding_at(ls, uri, params.range.start)
+    if found is None:
+        return []
+    source, finding = found
+    variable = finding.variable
+    breaks_callers = variable.kind == "parameter" and (variable.public_parameter or source.language != "python")
+    if breaks_callers and variable.public_parameter and not ls.settings.allow_public_parameter_renames:
+        return []
+    document = ls.workspace.get_text_document(uri)
+    kind = types.CodeActionKind.QuickFix if finding.flagged else types.CodeActionKind.RefactorRewrite
+    diagnostics = [d for d in params.context.diagnostics if d.code == DIAGNOSTIC_CODE
+                   and d.range.start.line == finding.line - 1] if finding.flagged else None
+    actions = []
+    for index, suggestion in enumerate(finding.suggestions[:3]):
+        edits = [types.TextEdit(range=client_range(document, line, column, len(finding.name)),
+                                new_text=suggestion.name) for line, column in finding.occurrences]
+        title = f"Rename `{finding.name}` to `{suggestion.name}`"
+        if breaks_callers:
+            title += " (callers passing it by keyword will break)"
+        actions.append(types.CodeAction(
+            title=title, kind=kind, diagnostics=diagnostics or None, is_preferred=finding.flagged and index == 0,
+            edit=types.WorkspaceEdit(changes={uri: edits})))
+    return actions
+
+
+def hover_for(ls: NameServer, uri: str, position: types.Position) -> types.Hover | None:
+    found = _finding_at(ls, uri, position)
+    if found is None:
+        return None
+    _, finding = found
+    if finding.score is None:
+        verdict = f"cognomen cannot judge `{finding.name}` here (too little code in this language, or no model " \
+                  f"names for it)"
+    elif finding.flagged:
+        verdict = f"`{finding.name}` does not fit how it is used here " \
+                  f"(oddness {finding.score:.2f}, flagged above {finding.threshold:.2f})"
+    elif finding.score > finding.threshold - 1.0:
+        verdict = f"`{finding.name}` fits, but only just (oddness {finding.score:.2f}, threshold {finding.threshold:.2f})"
+    else:
+        verdict = f"`{finding.name}` fits how it is used here (oddness {finding.score:.2f}, threshold " \
+                  f"{finding.threshold:.2f})"
+    lines = [verdict, ""]
+    if finding.suggestions:
+        lines.append("Names the team uses in contexts like this:")
+        for suggestion in finding.suggestions[:5]:
+            places = ", ".join(f"[{path}:{line}]({ls.uri_for(path)}#L{line})" for path, line in suggestion.evidence)
+            lines.append(f"- `{suggestion.name}` ({suggestion.score:.0%})" + (f": {places}" if places else ""))
+    document = ls.workspace.get_text_document(uri)
+    line, column = _occurrence_at(finding, *ls.server_position(uri, position))
+    return types.Hover(contents=types.MarkupContent(kind=types.MarkupKind.Markdown, value="\n".join(lines)),
+                       range=client_range(document, line, column, len(finding.name)))
+
+
+def _occurrence_at(finding: Finding, line: int, column: int) -> tuple[int, int]:
+    """The occurrence under a position (line, column), or the binding."""
+    for place_line, place_column in finding.occurrences:
+        if place_line == line and place_column <= column <= place_column + len(finding.name):
+            return place_line, place_column
+    return finding.line, finding.column
+
+
+def completions_for(ls: NameServer, uri: str, position: types.Position) -> types.CompletionList | None:
+    if ls.scorer is None:
+        return None
+    line, column = ls.server_position(uri, position)
+    document = ls.workspace.get_text_document(uri)
+    if len(document.source) > ls.settings.max_file_size:
+        return None
+    path = path_of(uri)
+    language = language_for_path(path.rsplit("/", 1)[-1])
+    if language is None or language not in ls.settings.languages:
+        return None
+    names = complete_binding(ls.scorer, document.source, ls.relative(path), line, column, language)
+    if not names:
+        return None
+    items = [types.CompletionItem(label=s.name, kind=types.CompletionItemKind.Variable,
+                                  detail=f"cognomen: {s.score:.0%} fit", sort_text=f"{index:03d}",
+                                  documentation=", ".join(f"{p}:{l}" for p, l in s.evidence) or None)
+             for index, s in enumerate(names)]
+    return types.CompletionList(is_incomplete=True, items=items)
+
+
+def serve(model_dir: str | None = None, tcp: str | None = None) -> int:
+    """Run the server over stdio (or TCP host:port); stdout carries only the protocol."""
+    logging.basicConfig(level=logging.WARNING, format="cognomen %(levelname)s %(name)s: %(message)s")
+    logging.getLogger("cognomen").setLevel(logging.INFO)
+    server = build_server(model_dir)
+    handler = ClientLogHandler(server)
+    handler.setFormatter(logging.Formatter("%(message)s"))
+    logging.getLogger("cognomen").addHandler(handler)
+    if tcp:
+        host, _, port = tcp.rpartition(":")
+        server.start_tcp(host or "127.0.0.1", int(port))
+    else:
+        server.start_io()
+    return 0

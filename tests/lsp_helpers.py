@@ -1,0 +1,72 @@
+"""A real LSP client (pytest-lsp) driving `cognomen serve` over stdio, as an editor would."""
+
+from __future__ import annotations
+
+import asyncio
+import contextlib
+import sys
+from pathlib import Path
+
+from lsprotocol import types
+from pygls.protocol import default_converter
+from pytest_lsp import ClientServerConfig, LanguageClient, client_capabilities
+from pytest_lsp.client import DEFAULT_CLIENT_FEATURES, register_lsp_features
+
+
+def _published(client: LanguageClient, params: types.PublishDiagnosticsParams):
+    client.diagnostics[params.uri] = params.diagnostics
+    client.diagnostic_versions[params.uri] = params.version
+    client.publish_counts[params.uri] = client.publish_counts.get(params.uri, 0) + 1
+
+
+def make_client() -> LanguageClient:
+    """pytest-lsp's test client, also remembering which document version each diagnostics were for."""
+    client = LanguageClient(converter_factory=default_converter)
+    client.diagnostic_versions = {}
+    client.publish_counts = {}
+    register_lsp_features(client, dict(DEFAULT_CLIENT_FEATURES, **{types.TEXT_DOCUMENT_PUBLISH_DIAGNOSTICS: _published}))
+    return client
+
+
+@contextlib.asynccontextmanager
+async def lsp_client(root: Path, options: dict | None = None, model_dir: Path | None = None,
+                     editor: str = "neovim@v0.10.0"):
+    command = [sys.executable, "-m", "cognomen"]
+    if model_dir is not None:
+        command += ["--model-dir", str(model_dir)]
+    command.append("serve")
+    client = await ClientServerConfig(server_command=command, client_factory=make_client).start()
+    await client.initialize_session(types.InitializeParams(
+        capabilities=client_capabilities(editor),
+        root_uri=root.as_uri(),
+        workspace_folders=[types.WorkspaceFolder(uri=root.as_uri(), name=root.name)],
+        initialization_options=options,
+    ))
+    try:
+        yield client
+    finally:
+        await client.shutdown_session()
+        await client.stop()
+
+
+def open_document(client, path: Path, text: str | None = None, language: str = "python", version: int = 1) -> str:
+    uri = path.as_uri()
+    client.text_document_did_open(types.DidOpenTextDocumentParams(text_document=types.TextDocumentItem(
+        uri=uri, language_id=language, version=version, text=path.read_text() if text is None else text)))
+    return uri
+
+
+async def diagnostics_for(client, uri: str, version: int | None = None, after: int = 0, timeout: float = 30.0):
+    """The diagnostics of a document once published more than `after` times (for a version, when asked)."""
+    async def wait():
+        while True:
+            if client.publish_counts.get(uri, 0) > after and (
+                    version is None or client.diagnostic_versions.get(uri) == version):
+                return client.diagnostics[uri]
+            await asyncio.sleep(0.01)
+    return await asyncio.wait_for(wait(), timeout)
+
+
+def published(client, uri: str) -> int:
+    """How many times diagnostics were published for a document so far."""
+    return client.publish_counts.get(uri, 0)

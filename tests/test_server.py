@@ -1,0 +1,203 @@
+"""The language server end to end: a real client over stdio, the demo repository, a trained model."""
+
+import asyncio
+import json
+import shutil
+
+import pytest
+from lsprotocol import types
+from pygls.exceptions import JsonRpcException
+
+from .conftest import git, run_cli
+from .lsp_helpers import diagnostics_for, lsp_client, open_document, published
+
+pytestmark = pytest.mark.asyncio(loop_scope="function")
+
+
+@pytest.fixture()
+def workspace(demo_copy, tmp_path):
+    """A private copy of the trained demo repository per test."""
+    target = tmp_path / "fernhill"
+    shutil.copytree(demo_copy, target, symlinks=True)
+    return target
+
+
+def position_of(text: str, needle: str, nth: int = 0) -> types.Position:
+    index = -1
+    for _ in range(nth + 1):
+        index = text.index(needle, index + 1)
+    line = text.count("\n", 0, index)
+    return types.Position(line=line, character=index - (text.rfind("\n", 0, index) + 1))
+
+
+async def test_diagnostic_for_an_odd_name(workspace):
+    async with lsp_client(workspace) as client:
+        uri = open_document(client, workspace / "fernhill" / "alerts.py")
+        diagnostics = await diagnostics_for(client, uri)
+        assert len(diagnostics) == 1
+        diagnostic = diagnostics[0]
+        assert diagnostic.source == "cognomen" and diagnostic.code == "name-does-not-fit"
+        assert diagnostic.severity == types.DiagnosticSeverity.Information
+        assert diagnostic.range.start == types.Position(line=26, character=8)
+        assert diagnostic.range.end == types.Position(line=26, character=13)
+        assert "`valve` does not fit" in diagnostic.message and "`zone`" in diagnostic.message
+        assert diagnostic.related_information
+        assert all(info.location.uri.startswith((workspace / "fernhill").as_uri())
+                   for info in diagnostic.related_information)
+
+
+async def test_quick_fix_renames_every_occurrence(workspace):
+    path = workspace / "fernhill" / "alerts.py"
+    text = path.read_text()
+    async with lsp_client(workspace) as client:
+        uri = open_document(client, path)
+        diagnostics = await diagnostics_for(client, uri)
+        actions = await client.text_document_code_action_async(types.CodeActionParams(
+            text_document=types.TextDocumentIdentifier(uri=uri), range=diagnostics[0].range,
+            context=types.CodeActionContext(diagnostics=list(diagnostics))))
+        assert actions[0].title == "Rename `valve` to `zone`"
+        assert actions[0].kind == types.CodeActionKind.QuickFix and actions[0].is_preferred
+        edits = actions[0].edit.changes[uri]
+        assert len(edits) == 2  # the binding and its one use
+        lines = text.split("\n")
+        for edit in sorted(edits, key=lambda e: (e.range.start.line, e.range.start.character), reverse=True):
+            line = lines[edit.range.start.line]
+            assert line[edit.range.start.character:edit.range.end.character] == "valve"
+            lines[edit.range.start.line] = line[:edit.range.start.character] + edit.new_text + \
+                line[edit.range.end.character:]
+        renamed = "\n".join(lines)
+        assert "zone = registry.get(zone_id)" in renamed and "zone.target_moisture" in renamed
+        compile(renamed, "alerts.py", "exec")
+
+
+async def test_refactor_for_any_variable_and_public_parameters(workspace):
+    path = workspace / "fernhill" / "readings.py"
+    text = path.read_text()
+    async with lsp_client(workspace) as client:
+        uri = open_document(client, path)
+        await diagnostics_for(client, uri)
+        local = position_of(text, "total = 0.0")
+        actions = await client.text_document_code_action_async(types.CodeActionParams(
+            text_document=types.TextDocumentIdentifier(uri=uri), range=types.Range(start=local, end=local),
+            context=types.CodeActionContext(diagnostics=[])))
+        assert actions and all(a.kind == types.CodeActionKind.RefactorRewrite for a in actions)
+        assert all("total" not in a.title.split("to")[-1] for a in actions)
+        parameter = position_of(text, "readings: list[Reading], zone_id")
+        none = await client.text_document_code_action_async(types.CodeActionParams(
+            text_document=types.TextDocumentIdentifier(uri=uri), range=types.Range(start=parameter, end=parameter),
+            context=types.CodeActionContext(diagnostics=[])))
+        assert not none, "a public function's parameter is not renamed by default"
+    async with lsp_client(workspace, options={"allowPublicParameterRenames": True}) as client:
+        uri = open_document(client, path)
+        await diagnostics_for(client, uri)
+        actions = await client.text_document_code_action_async(types.CodeActionParams(
+            text_document=types.TextDocumentIdentifier(uri=uri), range=types.Range(start=parameter, end=parameter),
+            context=types.CodeActionContext(diagnostics=[])))
+        assert actions and all("callers passing it by keyword will break" in a.title for a in actions)
+
+
+async def test_hover_explains_the_fit(workspace):
+    path = workspace / "fernhill" / "alerts.py"
+    text = path.read_text()
+    async with lsp_client(workspace) as client:
+        uri = open_document(client, path)
+        await diagnostics_for(client, uri)
+        hover = await client.text_document_hover_async(types.HoverParams(
+            text_document=types.TextDocumentIdentifier(uri=uri), position=position_of(text, "valve.target")))
+        assert hover.contents.kind == types.MarkupKind.Markdown
+        assert "`valve` does not fit how it is used here" in hover.contents.value
+        assert "- `zone`" in hover.contents.value and "](file://" in hover.contents.value
+        assert hover.range.start.line == text[:text.index("valve.target")].count("\n")
+        nothing = await client.text_document_hover_async(types.HoverParams(
+            text_document=types.TextDocumentIdentifier(uri=uri), position=types.Position(line=0, character=0)))
+        assert nothing is None
+
+
+async def test_completion_at_a_new_binding(workspace):
+    path = workspace / "fernhill" / "readings.py"
+    text = path.read_text().replace("    total = 0.0\n    for reading in readings:\n        total += reading.moisture",
+                                    "    to\n    for reading in readings:\n        total += reading.moisture", 1)
+    async with lsp_client(workspace) as client:
+        uri = open_document(client, path, text)
+        where = position_of(text, "    to\n")
+        result = await client.text_document_completion_async(types.CompletionParams(
+            text_document=types.TextDocumentIdentifier(uri=uri),
+            position=types.Position(line=where.line, character=6)))
+        labels = [item.label for item in result.items]
+        assert labels and all(label.startswith("to") for label in labels)
+        assert "total" in labels[:3]
+        not_a_binding = await client.text_document_completion_async(types.CompletionParams(
+            text_document=types.TextDocumentIdentifier(uri=uri), position=position_of(text, "len(readings)")))
+        assert not_a_binding is None or not not_a_binding.items
+
+
+async def test_bad_settings_are_reported_and_defaults_used(workspace):
+    async with lsp_client(workspace, options={"severity": "loud", "debounceMs": -3}) as client:
+        uri = open_document(client, workspace / "fernhill" / "alerts.py")
+        diagnostics = await diagnostics_for(client, uri)
+        assert diagnostics[0].severity == types.DiagnosticSeverity.Information
+        texts = [m.message for m in client.messages]
+        assert any("setting severity" in t and "information" in t for t in texts)
+        assert any("setting debounceMs" in t for t in texts)
+        seen = published(client, uri)
+        client.workspace_did_change_configuration(types.DidChangeConfigurationParams(
+            settings={"cognomen": {"severity": "warning"}}))
+        diagnostics = await diagnostics_for(client, uri, after=seen)
+        assert diagnostics[0].severity == types.DiagnosticSeverity.Warning
+
+
+async def test_without_a_model_the_server_says_so_once_and_answers_empty(tmp_path):
+    (tmp_path / "a.py").write_text("def f(value):\n    total = value\n    return total\n")
+    async with lsp_client(tmp_path) as client:
+        uri = open_document(client, tmp_path / "a.py")
+        diagnostics = await diagnostics_for(client, uri)
+        assert list(diagnostics) == []
+        hover = await client.text_document_hover_async(types.HoverParams(
+            text_document=types.TextDocumentIdentifier(uri=uri), position=types.Position(line=1, character=5)))
+        assert hover is None
+        assert len([m for m in client.messages if "no model found" in m.message]) == 1
+
+
+async def test_new_model_is_loaded_without_a_restart(workspace):
+    async with lsp_client(workspace, options={"reloadSeconds": 0.2}) as client:
+        uri = open_document(client, workspace / "fernhill" / "alerts.py")
+        await diagnostics_for(client, uri)
+        before = {m.message for m in client.log_messages}
+        seen = published(client, uri)
+        result = await asyncio.to_thread(run_cli, "train", "--quiet", "--force", "--background", "stdlib",
+                                         cwd=workspace)
+        assert result.returncode == 0, result.stderr
+        current = (workspace / ".cognomen" / "current").read_text().strip()
+        await diagnostics_for(client, uri, after=seen)  # open documents are checked again with the new model
+        for _ in range(100):
+            if any(current in m.message for m in client.log_messages if m.message not in before):
+                break
+            await asyncio.sleep(0.1)
+        assert any(f"loaded model {current}" in m.message for m in client.log_messages)
+        reports = [r for token, values in client.progress_reports.items() for r in values]
+        assert any(isinstance(r, types.WorkDoneProgressBegin) for r in reports)
+        assert any(isinstance(r, types.WorkDoneProgressEnd) for r in reports)
+
+
+async def test_bad_requests_get_errors_and_the_server_keeps_going(workspace):
+    path = workspace / "fernhill" / "alerts.py"
+    async with lsp_client(workspace, options={"maxFileSize": 50_000}) as client:
+        uri = open_document(client, path)
+        await diagnostics_for(client, uri)
+        with pytest.raises(JsonRpcException):
+            await client.text_document_hover_async(types.HoverParams(
+                text_document=types.TextDocumentIdentifier(uri=uri), position=types.Position(line=5000, character=3)))
+        with pytest.raises(JsonRpcException):
+            await client.protocol.send_request_async("cognomen/noSuchMethod", {})
+        notes = workspace / "notes.txt"
+        notes.write_text("valve = 1\n")
+        plain = open_document(client, notes, language="plaintext")
+        assert list(await diagnostics_for(client, plain)) == []
+        big = workspace / "big.py"
+        big.write_text("def f(value):\n    total = value\n    return total\n" * 3000)
+        big_uri = open_document(client, big)
+        assert list(await diagnostics_for(client, big_uri)) == []
+        assert any("no hints for it" in m.message for m in client.log_messages)
+        other = workspace / "fernhill" / "valves.py"
+        diagnostics = await diagnostics_for(client, open_document(client, other))
+        assert diagnostics is not None, "still serving after the errors"
