@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import hashlib
 import math
+from collections import Counter
 import subprocess
 import time
 from dataclasses import dataclass, field
@@ -14,6 +15,7 @@ import sysconfig
 
 from .corpus import Corpus, Settings, TokenCache, discover, load_corpus, read_settings
 from .training import TrainSettings, settings_dict, train
+from .vocab_report import model_coverage
 
 
 class NothingToLearn(Exception):
@@ -134,7 +136,10 @@ def train_repository(path: Path, store: Path, settings: TrainSettings, policy: G
     extra = load_background(background or [], TokenCache(store / "cache"))
     report("training", corpus)
     trained = train(corpus, settings, progress=lambda *args: report("epoch", *args), background=extra)
+    identifiers = Counter(t.text for f in corpus.files for t in f.tokens if t.kind == "name")
     manifest = {
+        "coverage": dict(model_coverage(identifiers, set(trained.vocabulary.tokens)),
+                         n=len(trained.vocabulary)),
         "source_commit": source_commit(path),
         "source_path": str(path),
         "corpus_fingerprint": corpus_hash,

@@ -95,11 +95,12 @@ def token_kind(ttype) -> str | None:
     return None
 
 
-def lex(text: str, language: str, keep_comments: bool = False) -> list[Token]:
+def lex(text: str, language: str, keep_comments: bool = False, raw: bool = False) -> list[Token]:
     """Lex source text into normalised tokens.
 
     String fragments merge into one STRING_TOKEN, numbers become NUMBER_TOKEN, comments
     are dropped unless asked for (then their text is replaced by the kind, never kept).
+    With raw=True (for vocabulary statistics only) literals and comments keep their text.
     """
     tokens: list[Token] = []
     line, column = 1, 1
@@ -122,17 +123,20 @@ def lex(text: str, language: str, keep_comments: bool = False) -> list[Token]:
         if not stripped:
             continue
         if kind == COMMENT:
-            if keep_comments:
-                tokens.append(Token("<comment>", COMMENT, start_line, start_column))
+            if keep_comments or raw:
+                tokens.append(Token(stripped if raw else "<comment>", COMMENT, start_line, start_column))
             previous_kind = COMMENT
             continue
         if kind == STRING:
             if previous_kind != STRING:
-                tokens.append(Token(STRING_TOKEN, STRING, start_line, start_column))
+                tokens.append(Token(value if raw else STRING_TOKEN, STRING, start_line, start_column))
+            elif raw:
+                merged = tokens[-1]
+                tokens[-1] = Token(merged.text + value, STRING, merged.line, merged.column)
             previous_kind = STRING
             continue
         if kind == NUMBER:
-            tokens.append(Token(NUMBER_TOKEN, NUMBER, start_line, start_column))
+            tokens.append(Token(stripped if raw else NUMBER_TOKEN, NUMBER, start_line, start_column))
         elif kind == OPERATOR and len(stripped) > 1 and not _is_operator(stripped):
             # Punctuation runs such as "):" arrive as one value in some lexers: split them.
             offset = value.index(stripped[0])
