@@ -61,7 +61,7 @@ def metrics(tally: Tally, lines: int, threshold: float | None) -> dict:
 
 
 def evaluate_corpus(corpus: Corpus, settings: TrainSettings, held_share: float = 0.15, seed: int = 7,
-                    max_variables: int = 6000) -> dict:
+                    max_variables: int = 6000, background: Corpus | None = None) -> dict:
     """Train on about 85% of the files and measure on the rest, as DESIGN.md's protocol says."""
     kept, held = split_files([f.path for f in corpus.files], held_share, seed)
     train_corpus = Corpus([f for f in corpus.files if f.path in kept], {})
@@ -69,7 +69,7 @@ def evaluate_corpus(corpus: Corpus, settings: TrainSettings, held_share: float =
     if not train_corpus.files or not held_files:
         raise ValueError("too few files to hold some out: evaluation needs at least a handful of files")
     started = time.monotonic()
-    trained = train(train_corpus, settings)
+    trained = train(train_corpus, settings, background=background)
     trained_seconds = time.monotonic() - started
     scorer = Scorer(trained.tables, trained.detector, trained.threshold, settings.weights)
     tables = trained.tables

@@ -1,0 +1,131 @@
+"""Benchmark: `eval` (the evaluation protocol) on real code in several languages, with ablations.
+
+Corpora: the standard library of the running Python; three pure-Python packages from PyPI in
+different domains; lodash from npm (JavaScript); golang.org/x/net from Debian's
+golang-golang-x-net-dev (Go). Pinned versions are downloaded at bench time into
+~/.cache/cognomen-bench (never into the repository). Prints one table per corpus and, with
+--ablate, each lever switched off; writes bench-results/quality.json.
+"""
+
+from __future__ import annotations
+
+import argparse
+import dataclasses
+import subprocess
+import sys
+import tarfile
+import zipfile
+from pathlib import Path
+
+sys.path.insert(0, str(Path(__file__).resolve().parent))
+
+from common import STDLIB, save  # noqa: E402
+
+from cognomen.model.corpus import Settings, TokenCache, discover, load_corpus  # noqa: E402
+from cognomen.model.evaluation import evaluate_corpus, format_table  # noqa: E402
+from cognomen.model.pipeline import load_background  # noqa: E402
+from cognomen.model.training import TrainSettings  # noqa: E402
+
+CACHE = Path.home() / ".cache" / "cognomen-bench"
+STDLIB_EXCLUDES = ["test/*", "*/test/*", "*/tests/*", "*/idle_test/*", "tests/*"]
+PYPI = {"requests": "2.32.3", "click": "8.1.7", "networkx": "3.4.2"}
+DOMAINS = {"requests": "HTTP client", "click": "command-line interfaces", "networkx": "graph algorithms"}
+
+
+def fetch_pypi(name: str, version: str) -> Path:
+    target = CACHE / f"{name}-{version}"
+    if not target.exists():
+        downloads = CACHE / "downloads"
+        downloads.mkdir(parents=True, exist_ok=True)
+        subprocess.run([sys.executable, "-m", "pip", "download", "--quiet", "--no-deps", "--only-binary", ":all:",
+                        "-d", str(downloads), f"{name}=={version}"], check=True)
+        wheel = next(downloads.glob(f"{name}-{version}-*.whl"))
+        with zipfile.ZipFile(wheel) as archive:
+            archive.extractall(target)
+    return target
+
+
+def fetch_npm(name: str, version: str) -> Path:
+    target = CACHE / f"npm-{name}-{version}"
+    if not target.exists():
+        downloads = CACHE / "downloads"
+        downloads.mkdir(parents=True, exist_ok=True)
+        subprocess.run(["npm", "pack", f"{name}@{version}", "--silent", "--pack-destination", str(downloads)],
+                       check=True, capture_output=True)
+        with tarfile.open(downloads / f"{name}-{version}.tgz") as archive:
+            archive.extractall(target, filter="data")
+    return target
+
+
+def fetch_debian(package: str) -> Path:
+    target = CACHE / f"deb-{package}"
+    if not target.exists():
+        downloads = CACHE / "downloads"
+        downloads.mkdir(parents=True, exist_ok=True)
+        subprocess.run(["apt-get", "download", package], cwd=downloads, check=True, capture_output=True)
+        deb = next(downloads.glob(f"{package}_*.deb"))
+        subprocess.run(["dpkg-deb", "-x", str(deb), str(target)], check=True)
+    return target
+
+
+def corpora() -> list[tuple[str, Path, Settings]]:
+    found = [("Python standard library", STDLIB, Settings(exclude=list(STDLIB_EXCLUDES)))]
+    for name, version in PYPI.items():
+        found.append((f"{name} {version} ({DOMAINS[name]}, PyPI)", fetch_pypi(name, version),
+                      Settings(exclude=["*/tests/*", "tests/*"])))
+    found.append(("lodash 4.17.21 (JavaScript utilities, npm)", fetch_npm("lodash", "4.17.21"),
+                  Settings(exclude=["*.min.js", "*/fp/*"])))
+    found.append(("golang.org/x/net 0.7.0 (Go networking, Debian golang-golang-x-net-dev)",
+                  fetch_debian("golang-golang-x-net-dev"), Settings(exclude=["*_test.go"])))
+    return found
+
+
+ABLATIONS = {
+    "full model": {},
+    "no embeddings in ranking": {"embedding_weight": 0.0},
+    "no sub-token overlap in ranking": {"lexical_weight": 0.0},
+    "no context counts in ranking": {"count_weight": 0.0},
+    "no learned detector (raw gap)": {"use_detector": False},
+}
+
+
+def main() -> int:
+    parser = argparse.ArgumentParser()
+    parser.add_argument("--ablate", action="store_true", help="also run each lever switched off")
+    parser.add_argument("--only", help="run only corpora whose label contains this text")
+    args = parser.parse_args()
+    cache = TokenCache(CACHE / "tokens")
+    results = {}
+    stdlib_background = None
+    for label, root, settings in corpora():
+        if args.only and args.only.lower() not in label.lower():
+            continue
+        corpus = load_corpus(discover(root, settings), cache)
+        variants = dict(ABLATIONS) if args.ablate else {"full model": {}}
+        is_small_python = corpus.lines < 30_000 and all(f.language == "python" for f in corpus.files)
+        if args.ablate and is_small_python:
+            variants["with the standard library as background"] = {"background": True}
+        results[label] = {}
+        for variant, change in variants.items():
+            background = None
+            if change.get("background"):
+                stdlib_background = stdlib_background or load_background(["stdlib"], cache)
+                background = stdlib_background
+            train_settings = dataclasses.replace(TrainSettings(), **{k: v for k, v in change.items()
+                                                                       if k != "background"})
+            result = evaluate_corpus(corpus, train_settings, background=background)
+            result["lines"] = corpus.lines
+            results[label][variant] = result
+            print(f"\n## {label}: {variant} ({len(corpus.files)} files, {corpus.lines:,} lines)")
+            print(format_table(result))
+            model, counts = result["scorers"]["model"], result["scorers"]["context counts"]
+            if counts["recovery_at_5"]:
+                print(f"recovery@5 against the count-based baseline: "
+                      f"{model['recovery_at_5'] / counts['recovery_at_5']:.2f}x")
+            sys.stdout.flush()
+    save("quality", results)
+    return 0
+
+
+if __name__ == "__main__":
+    raise SystemExit(main())
