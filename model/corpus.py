@@ -105,6 +105,8 @@ def discover(root: Path, settings: Settings | None = None) -> Selection:
         candidates = _walk(root, selection)
     for relative in sorted(candidates):
         parts = relative.split("/")
+        if language_for_path(parts[-1]) is None:
+            continue
         if any(part in DEFAULT_EXCLUDES for part in parts[:-1]):
             selection.skip("excluded folder")
             continue
@@ -115,8 +117,6 @@ def discover(root: Path, settings: Settings | None = None) -> Selection:
             continue
         if relative.endswith(GENERATED_SUFFIXES):
             selection.skip("generated")
-            continue
-        if language_for_path(parts[-1]) is None:
             continue
         full = root / relative
         if full.is_symlink():

@@ -71,7 +71,7 @@ def evaluate_corpus(corpus: Corpus, settings: TrainSettings, held_share: float =
     started = time.monotonic()
     trained = train(train_corpus, settings, background=background)
     trained_seconds = time.monotonic() - started
-    scorer = Scorer(trained.tables, trained.detector, trained.threshold, settings.weights)
+    scorer = Scorer(trained.tables, trained.detector, trained.threshold, settings.weights, trained.reranker)
     tables = trained.tables
     tallies = {name: Tally() for name in SCORERS}
     rng = random.Random(seed)
@@ -133,8 +133,9 @@ def _tally(tallies: dict[str, Tally], scorer: Scorer, ranking, allowed, name, va
         (tallies[scorer_name].clean if clean else tallies[scorer_name].seeded).append(value)
     if truth is None:
         return
+    suggested = [s.name for s in scorer.suggestions(ranking, allowed, 10, variable.bound_names, name)]
+    tallies["model"].ranks.append(suggested.index(truth) + 1 if truth in suggested else 0)
     orders = {
-        "model": ranking.combined,
         "context counts": ranking.count_scores,
         "most frequent": tables.log_counts[ranking.rows],
     }

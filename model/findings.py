@@ -154,9 +154,10 @@ def complete_binding(scorer: Scorer, text: str, path: str, line: int, column: in
              and v.scope_start <= line <= v.scope_end}
     allowed = allowed_mask(scorer.tables, ranking, variable.bound_names - later - {HOLE}, HOLE)
     if prefix:
-        lowered = prefix.lower()
-        allowed &= np.array([scorer.tables.names[r].lower().startswith(lowered) for r in ranking.rows], dtype=bool)
+        allowed &= np.array([scorer.tables.names[r].lower().startswith(prefix.lower()) for r in ranking.rows], dtype=bool)
     if later:
         boost = np.array([scorer.tables.names[r] in later for r in ranking.rows], dtype=bool)
         ranking.combined = np.where(boost, ranking.combined + 100.0, ranking.combined)
-    return scorer.suggestions(ranking, allowed, limit)
+    lowered = prefix.lower()
+    found = scorer.suggestions(ranking, allowed, limit * 3, variable.bound_names - later, HOLE)
+    return [s for s in found if s.name.lower().startswith(lowered)][:limit]

@@ -8,6 +8,7 @@ from pathlib import Path
 import numpy as np
 
 from . import bundle as store_files
+from .reranking import Reranker
 from .scoring import Detector, NameTables, Scorer, Weights
 from .training import TrainedModel
 from .vocabulary import Vocabulary
@@ -28,6 +29,8 @@ def save(store: Path, trained: TrainedModel, manifest: dict) -> Path:
     }
     if trained.detector is not None:
         documents["detector"] = trained.detector.to_json()
+    if trained.reranker is not None:
+        documents["reranker"] = trained.reranker.to_json()
     arrays = {name: getattr(tables, name) for name in _TABLE_ARRAYS}
     full = dict(manifest, created=time.strftime("%Y-%m-%dT%H:%M:%SZ", time.gmtime()),
                 threshold=trained.threshold, quality=trained.quality, counts=trained.counts,
@@ -53,6 +56,7 @@ def scorer_from_bundle(loaded: store_files.Bundle) -> Scorer:
         )
         _check_shapes(tables)
         detector = Detector.from_json(loaded.documents["detector"]) if "detector" in loaded.documents else None
+        reranker = Reranker.from_json(loaded.documents["reranker"]) if "reranker" in loaded.documents else None
         threshold = float(loaded.manifest.get("threshold", 0.0))
         chosen = loaded.manifest.get("settings", {})
         weights = Weights(embedding=float(chosen.get("embedding_weight", 1.0)),
@@ -60,7 +64,7 @@ def scorer_from_bundle(loaded: store_files.Bundle) -> Scorer:
                           counts=float(chosen.get("count_weight", 1.0)))
     except (KeyError, TypeError, ValueError) as error:
         raise store_files.ModelError(f"model {loaded.model_id} is inconsistent ({error}); retrain it") from None
-    return Scorer(tables, detector, threshold, weights)
+    return Scorer(tables, detector, threshold, weights, reranker)
 
 
 def _check_shapes(tables: NameTables) -> None:

@@ -157,6 +157,7 @@ class Ranking:
     occurrences: int
     unseen_count: float = 0.0  # the count score of a name never seen as a local
     embedding_normaliser: float = 0.0  # log-sum-exp of the candidates' embedding logits
+    context_identifiers: frozenset[str] = frozenset()
 
 
 @dataclass
@@ -190,16 +191,20 @@ def occurrence_contexts(ids: np.ndarray, occurrences: list[int], window: int, se
     return context
 
 
-def lexical_context(source: SourceFile, variable: Variable) -> frozenset[str]:
-    """Sub-tokens of other identifiers near the variable's uses, and of its function's name."""
+def lexical_context(source: SourceFile, variable: Variable) -> tuple[frozenset[str], frozenset[str]]:
+    """Sub-tokens of other identifiers near the variable's uses (and of its function's name),
+    and those identifiers themselves."""
     own = set(variable.occurrences)
     tokens = source.tokens
-    found: set[str] = set(split_identifier(variable.function)) if variable.function else set()
+    identifiers: set[str] = set()
     for position in variable.occurrences[:MAX_OCCURRENCES]:
         for j in range(max(0, position - LEXICAL_WINDOW), min(len(tokens), position + LEXICAL_WINDOW + 1)):
             if j not in own and tokens[j].kind == NAME:
-                found.update(split_identifier(tokens[j].text))
-    return frozenset(found - STOP_SUBTOKENS)
+                identifiers.add(tokens[j].text)
+    found: set[str] = set(split_identifier(variable.function)) if variable.function else set()
+    for identifier in identifiers:
+        found.update(split_identifier(identifier))
+    return frozenset(found - STOP_SUBTOKENS), frozenset(identifiers - RECEIVER_NAMES)
 
 
 def lexical_fit(subtokens: frozenset[str], context: frozenset[str]) -> float:
@@ -248,12 +253,13 @@ def rank_many(tables: NameTables, source: SourceFile, variables: list[Variable],
     normalisers = (top + np.log(np.exp(logits - top).sum(axis=1, keepdims=True))).ravel()
     embedding_scores = logits - normalisers[:, None]
     lexical_scores = np.zeros((len(variables), len(rows)), dtype=np.float64)
-    contexts = []
+    contexts, identifiers = [], []
     postings = tables.subtoken_columns[source.language]
     sizes = tables.subtoken_sizes[rows]
     for index, variable in enumerate(variables):
-        subtokens = lexical_context(source, variable)
+        subtokens, near = lexical_context(source, variable)
         contexts.append(subtokens)
+        identifiers.append(near)
         for subtoken in subtokens:
             columns = postings.get(subtoken)
             if columns is not None and len(columns):
@@ -261,7 +267,8 @@ def rank_many(tables: NameTables, source: SourceFile, variables: list[Variable],
     lexical_scores /= sizes[None, :]
     combined = weights.counts * count_scores + weights.embedding * embedding_scores + weights.lexical * lexical_scores
     return [Ranking(source.language, rows, count_scores[i], embedding_scores[i], lexical_scores[i], combined[i],
-                    context_vectors[i], contexts[i], int(counts[i]), unseen_count, float(normalisers[i]))
+                    context_vectors[i], contexts[i], int(counts[i]), unseen_count, float(normalisers[i]),
+                    identifiers[i])
             for i in range(len(variables))]
 
 
@@ -470,11 +477,12 @@ class Scorer:
     """A loaded model's scoring: judge every variable of a file, suggest names for one."""
 
     def __init__(self, tables: NameTables, detector: Detector | None, threshold: float,
-                 weights: Weights | None = None):
+                 weights: Weights | None = None, reranker=None):
         self.tables = tables
         self.detector = detector
         self.threshold = threshold
         self.weights = weights or Weights()
+        self.reranker = reranker  # reranking.Reranker, or None to rank by the combined score alone
 
     def judge(self, source: SourceFile, variable: Variable, ids: np.ndarray | None = None,
               limit: int = 5) -> Judgement:
@@ -498,7 +506,7 @@ class Scorer:
         if ranking is None:
             return Judgement(variable, None, [])
         allowed = allowed_mask(self.tables, ranking, variable.bound_names, variable.name)
-        suggestions = self.suggestions(ranking, allowed, limit)
+        suggestions = self.suggestions(ranking, allowed, limit, variable.bound_names, variable.name)
         fit = name_fit(self.tables, ranking, variable.name, self.weights)
         if fit is None or not self.tables.judges(source.language):
             return Judgement(variable, None, suggestions)
@@ -509,7 +517,13 @@ class Scorer:
             oddness = float(features[0])
         return Judgement(variable, oddness, suggestions, features)
 
-    def suggestions(self, ranking: Ranking, allowed: np.ndarray, limit: int) -> list[Suggestion]:
+    def suggestions(self, ranking: Ranking, allowed: np.ndarray, limit: int,
+                    bound: frozenset[str] = frozenset(), current: str = "") -> list[Suggestion]:
+        """The best names for a variable, best first, each with its evidence."""
+        if self.reranker is not None:
+            return [Suggestion(name, share, self.evidence(row, ranking.context_vector) if row is not None else [])
+                    for name, share, row in self.reranker.rank(self.tables, ranking, allowed, bound, current,
+                                                               self.weights, limit)]
         combined = np.where(allowed, ranking.combined, -np.inf)
         if not allowed.any():
             return []

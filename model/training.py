@@ -17,6 +17,7 @@ from .scopes import Variable
 from .scoring import (IGNORED_NAMES, WINDOW, Detector, NameTables, Scorer, Weights, allowed_mask,
                       detection_features, dominant_style, fit_detector, name_fit, occurrence_contexts,
                       rank_candidates, token_ids, _context_vector)
+from .reranking import Reranker, fit_reranker, shortlist_features
 from .vocabulary import Vocabulary, build_vocabulary, count_tokens
 
 MAX_SENTENCE = 10_000  # gensim silently truncates longer sentences
@@ -45,6 +46,7 @@ class TrainSettings:
     lexical_weight: float = 3.0
     count_weight: float = 1.0
     use_detector: bool = True
+    use_reranker: bool = True
     background_weight: float = 0.3  # how much a background corpus file counts against a team file
 
     @property
@@ -251,6 +253,7 @@ class Examples:
     labels: list[int] = field(default_factory=list)
     recovered_at: list[int] = field(default_factory=list)  # rank of the true name, per seeded misname
     lines: int = 0
+    shortlists: list[tuple[np.ndarray, np.ndarray]] = field(default_factory=list)  # re-ranking rows and labels
 
 
 def collect_examples(tables: NameTables, files: list[SourceFile], seed: int, weights: Weights | None = None,
@@ -285,6 +288,9 @@ def collect_examples(tables: NameTables, files: list[SourceFile], seed: int, wei
             suggestions = scorer.suggestions(ranking, allowed, 10)
             names = [s.name for s in suggestions]
             examples.recovered_at.append(names.index(variable.name) + 1 if variable.name in names else 0)
+            listed, _, rows = shortlist_features(tables, ranking, allowed, renamed.bound_names, wrong,
+                                                 weights or Weights())
+            examples.shortlists.append((rows, np.array([name == variable.name for name in listed], dtype=float)))
             fit = name_fit(tables, ranking, wrong, weights)
             if fit is not None:
                 examples.features.append(detection_features(tables, ranking, allowed, fit, wrong, renamed))
@@ -314,6 +320,7 @@ class TrainedModel:
     quality: dict
     counts: dict
     seconds: dict
+    reranker: Reranker | None = None
 
 
 def train(corpus: Corpus, settings: TrainSettings, progress=None, background: Corpus | None = None) -> TrainedModel:
@@ -340,8 +347,11 @@ def train(corpus: Corpus, settings: TrainSettings, progress=None, background: Co
     embedded = time.monotonic()
     tables = build_tables(files, vocabulary, inputs, outputs, settings, background_paths)
     detector, threshold, quality = None, 0.0, {}
+    reranker = None
     if held_files:
         examples = collect_examples(tables, held_files, settings.seed, settings.weights)
+        if settings.use_reranker:
+            reranker = train_reranker(examples)
         quality = summarise(examples)
         labels = np.array(examples.labels)
         if labels.size and 0 < labels.sum() < labels.size:
@@ -362,7 +372,27 @@ def train(corpus: Corpus, settings: TrainSettings, progress=None, background: Co
                 "calibration_files": len(held_files)},
         seconds={"vocabulary": round(counted - started, 2), "embeddings": round(embedded - counted, 2),
                  "names_and_calibration": round(finished - embedded, 2)},
+        reranker=reranker,
     )
+
+
+def train_reranker(examples: Examples) -> Reranker | None:
+    """Fit the re-ranker on the seeded misnames' shortlists; recovery is then measured with it."""
+    usable = [(rows, labels) for rows, labels in examples.shortlists if len(rows) and labels.sum() > 0]
+    if len(usable) < 20:
+        return None
+    reranker = fit_reranker(np.vstack([rows for rows, _ in usable]), np.concatenate([labels for _, labels in usable]))
+    ranks = []
+    for rows, labels in examples.shortlists:
+        if not len(rows) or labels.sum() == 0:
+            ranks.append(0)
+            continue
+        scores = reranker.score(rows)
+        truth = int(np.argmax(labels))
+        rank = int((scores > scores[truth]).sum()) + 1
+        ranks.append(rank if rank <= 10 else 0)
+    examples.recovered_at = ranks
+    return reranker
 
 
 def summarise(examples: Examples) -> dict:
