@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import math
 import random
 import time
 from dataclasses import dataclass, field
@@ -103,7 +104,7 @@ def evaluate_corpus(corpus: Corpus, settings: TrainSettings, held_share: float =
         "held_out_lines": lines,
         "variables": variables,
         "seeded": len(tallies["model"].ranks),
-        "threshold": trained.threshold,
+        "threshold": trained.threshold if math.isfinite(trained.threshold) else None,
         "train_seconds": round(trained_seconds, 1),
         "calibration": trained.quality,
         "scorers": {},

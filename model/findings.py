@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import math
 import re
 from dataclasses import dataclass, field
 
@@ -35,7 +36,7 @@ class Finding:
             "path": self.path, "line": self.line, "column": self.column, "end_line": self.end_line,
             "end_column": self.end_column, "name": self.name,
             "score": None if self.score is None else round(self.score, 4),
-            "threshold": round(self.threshold, 4),
+            "threshold": round(self.threshold, 4) if math.isfinite(self.threshold) else None,
             "suggestions": [suggestion_json(s) for s in self.suggestions],
         }
 

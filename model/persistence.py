@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import math
 import time
 from pathlib import Path
 
@@ -33,7 +34,7 @@ def save(store: Path, trained: TrainedModel, manifest: dict) -> Path:
         documents["reranker"] = trained.reranker.to_json()
     arrays = {name: getattr(tables, name) for name in _TABLE_ARRAYS}
     full = dict(manifest, created=time.strftime("%Y-%m-%dT%H:%M:%SZ", time.gmtime()),
-                threshold=trained.threshold, quality=trained.quality, counts=trained.counts,
+                threshold=trained.threshold if math.isfinite(trained.threshold) else None, quality=trained.quality, counts=trained.counts,
                 seconds=trained.seconds)
     return store_files.write_model(store, full, documents, arrays)
 
@@ -57,7 +58,8 @@ def scorer_from_bundle(loaded: store_files.Bundle) -> Scorer:
         _check_shapes(tables)
         detector = Detector.from_json(loaded.documents["detector"]) if "detector" in loaded.documents else None
         reranker = Reranker.from_json(loaded.documents["reranker"]) if "reranker" in loaded.documents else None
-        threshold = float(loaded.manifest.get("threshold", 0.0))
+        stored = loaded.manifest.get("threshold")
+        threshold = math.inf if stored is None else float(stored)
         chosen = loaded.manifest.get("settings", {})
         weights = Weights(embedding=float(chosen.get("embedding_weight", 1.0)),
                           lexical=float(chosen.get("lexical_weight", 3.0)),

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import hashlib
 import logging
+import math
 import os
 import random
 import time
@@ -21,6 +22,7 @@ from .reranking import Reranker, fit_reranker, shortlist_features
 from .vocabulary import Vocabulary, build_vocabulary, count_tokens
 
 MAX_SENTENCE = 10_000  # gensim silently truncates longer sentences
+MIN_CALIBRATION_LINES = 3_000  # below this, calibrated thresholds measured far off on new code
 EVIDENCE_PER_NAME = 6
 
 log = logging.getLogger("cognomen.training")
@@ -363,6 +365,12 @@ def train(corpus: Corpus, settings: TrainSettings, progress=None, background: Co
                 oddness = features[:, 0]
             threshold = calibrate(oddness[labels == 0], examples.lines, settings.flag_budget)
             quality.update(detection_quality(oddness, labels, threshold, examples.lines))
+            quality["calibration_lines"] = examples.lines
+            if examples.lines < MIN_CALIBRATION_LINES:
+                # Too little unseen code to set a threshold that holds: suggest names, flag none.
+                threshold = math.inf
+                quality["recall_at_threshold"] = 0.0
+                quality["false_alarms_per_kloc"] = 0.0
     finished = time.monotonic()
     return TrainedModel(
         vocabulary, tables, detector, threshold, quality,

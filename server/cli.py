@@ -92,9 +92,9 @@ def command_train(args) -> int:
         return OK
     corpus = result.corpus
     manifest = result.manifest
+    quality = manifest.get("quality", {})
     counts = manifest.get("counts", {})
     skipped = ", ".join(f"{n} {reason}" for reason, n in sorted(corpus.skipped.items())) or "none"
-    quality = manifest.get("quality", {})
     lines = [
         f"model {result.model_id}: {result.reason}",
         f"  files      {counts.get('files', 0):,} learned, skipped: {skipped}"
@@ -102,7 +102,10 @@ def command_train(args) -> int:
         f"  lines      {counts.get('lines', 0):,}",
         f"  tokens     {counts.get('tokens', 0):,}",
         f"  vocabulary {counts.get('vocabulary', 0):,} tokens, {counts.get('names', 0):,} candidate names",
-        f"  threshold  {manifest.get('threshold', 0):.3f} (about {settings.flag_budget:g} flag per 1,000 lines)",
+        (f"  threshold  {manifest['threshold']:.3f} (about {settings.flag_budget:g} flag per 1,000 lines)"
+         if manifest.get("threshold") is not None else
+         f"  threshold  none: too little held-out code ({quality.get('calibration_lines', 0):,} lines) to "
+         f"calibrate flags; suggestions only (more code, or --background stdlib for Python, fixes this)"),
     ]
     if quality:
         lines.append("  held out   " + ", ".join(f"{k} {v}" for k, v in quality.items()))
