@@ -327,6 +327,8 @@ def _token_variables(tokens: list[Token], language: str) -> list[Variable]:
             continue
         if previous is not None and previous.text in declaration_words:
             declarations.append((i, block_of[i], LOCAL))
+            if language in ("javascript", "typescript", "go"):
+                declarations.extend((j, block_of[j], LOCAL) for j in _more_declarators(tokens, i))
         elif previous is not None and previous.text == "mut" and i > 1 and tokens[i - 2].text == "let":
             declarations.append((i, block_of[i], LOCAL))
         elif language == "go" and following is not None and following.text == ":=":
@@ -388,6 +390,27 @@ def _token_variables(tokens: list[Token], language: str) -> list[Variable]:
             scope_kind="block",
         ))
     return variables
+
+
+def _more_declarators(tokens: list[Token], first: int) -> list[int]:
+    """Further names in `var a = 1, b, c = f(x, y);`: those after a top-level comma."""
+    found, depth = [], 0
+    for j in range(first + 1, len(tokens)):
+        text = tokens[j].text
+        if text in ("(", "[", "{"):
+            depth += 1
+        elif text in (")", "]", "}"):
+            depth -= 1
+            if depth < 0:
+                break
+        elif depth == 0 and text in (";", "in", "of"):
+            break
+        elif depth == 0 and tokens[j].line != tokens[j - 1].line and tokens[j - 1].text not in (",", "=") \
+                and tokens[j - 1].kind != OPERATOR:
+            break
+        elif depth == 0 and text == "," and j + 1 < len(tokens) and tokens[j + 1].kind == NAME:
+            found.append(j + 1)
+    return found
 
 
 def _looks_like_type_end(tokens: list[Token], i: int) -> bool:

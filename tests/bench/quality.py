@@ -1,7 +1,7 @@
 """Benchmark: `eval` (the evaluation protocol) on real code in several languages, with ablations.
 
 Corpora: the standard library of the running Python; three pure-Python packages from PyPI in
-different domains; lodash from npm (JavaScript); golang.org/x/net from Debian's
+different domains; moment's sources from npm (JavaScript); golang.org/x/net from Debian's
 golang-golang-x-net-dev (Go). Pinned versions are downloaded at bench time into
 ~/.cache/cognomen-bench (never into the repository). Prints one table per corpus and, with
 --ablate, each lever switched off; writes bench-results/quality.json.
@@ -73,8 +73,10 @@ def corpora() -> list[tuple[str, Path, Settings]]:
     for name, version in PYPI.items():
         found.append((f"{name} {version} ({DOMAINS[name]}, PyPI)", fetch_pypi(name, version),
                       Settings(exclude=["*/tests/*", "tests/*"])))
-    found.append(("lodash 4.17.21 (JavaScript utilities, npm)", fetch_npm("lodash", "4.17.21"),
-                  Settings(exclude=["*.min.js", "*/fp/*"])))
+    # moment's src/ holds modules of several functions each; lodash's one-function files leave the
+    # protocol's seeding (a name from elsewhere in the same file) almost nothing to work with.
+    found.append(("moment 2.30.1 src/ (JavaScript dates, npm)", fetch_npm("moment", "2.30.1"),
+                  Settings(include=["package/src/*"])))
     found.append(("golang.org/x/net 0.7.0 (Go networking, Debian golang-golang-x-net-dev)",
                   fetch_debian("golang-golang-x-net-dev"), Settings(exclude=["*_test.go"])))
     return found
