@@ -88,6 +88,7 @@ ABLATIONS = {
     "no sub-token overlap in ranking": {"lexical_weight": 0.0},
     "no context counts in ranking": {"count_weight": 0.0},
     "no learned detector (raw gap)": {"use_detector": False},
+    "no learned re-ranking": {"use_reranker": False},
 }
 
 
