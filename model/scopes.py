@@ -433,9 +433,7 @@ def _blocks(tokens: list[Token]) -> tuple[list[_Block], list[int]]:
     for i, token in enumerate(tokens):
         if token.text == "{" and token.kind == OPERATOR:
             header = {t.text for t in tokens[last_boundary:i]}
-            blocks.append(_Block(i, len(tokens), bool(header & _TYPE_BLOCK_WORDS) and "(" not in header
-                                 or bool(header & {"class", "interface", "struct", "enum"} and "=>" not in header
-                                         and "function" not in header and ")" != tokens[i - 1].text),
+            blocks.append(_Block(i, len(tokens), _is_type_body(header, tokens[i - 1].text if i else ""),
                                  stack[-1] if stack else -1))
             stack.append(len(blocks) - 1)
             last_boundary = i + 1
@@ -450,6 +448,15 @@ def _blocks(tokens: list[Token]) -> tuple[list[_Block], list[int]]:
         if token.text == "{" and block_of[i] >= 0 and blocks[block_of[i]].start == i:
             block_of[i] = blocks[block_of[i]].parent
     return blocks, block_of
+
+
+def _is_type_body(header: set[str], before_brace: str) -> bool:
+    """Whether a block holds members (class, struct, namespace...) rather than statements."""
+    if header & _TYPE_BLOCK_WORDS and "(" not in header:
+        return True
+    # `class Foo extends Bar(...) {` and the like, but not a function or lambda that mentions a type word.
+    return bool(header & {"class", "interface", "struct", "enum"}) and "=>" not in header \
+        and "function" not in header and before_brace != ")"
 
 
 def _function_block(blocks: list[_Block], block_id: int) -> int:

@@ -318,11 +318,17 @@ def _count_scores(tables: NameTables, language: str, rows: np.ndarray, ids: np.n
 
 def _context_vectors(tables: NameTables, ids: np.ndarray, positions: np.ndarray, owners: np.ndarray,
                      variables: int) -> np.ndarray:
+    return context_vectors(tables.input_vectors, tables.self_id, tables.pad_id, ids, positions, owners, variables)
+
+
+def context_vectors(input_vectors: np.ndarray, self_id: int, pad_id: int, ids: np.ndarray, positions: np.ndarray,
+                    owners: np.ndarray, variables: int) -> np.ndarray:
+    """Each variable's CBOW context vector: nearer neighbours of its uses weigh more, itself masked."""
     own = _own_keys(positions, owners, len(ids))
-    contexts = _window(ids, positions, owners, _EMBEDDING_OFFSETS, own, tables.self_id, tables.pad_id)
+    contexts = _window(ids, positions, owners, _EMBEDDING_OFFSETS, own, self_id, pad_id)
     weight = np.broadcast_to(_EMBEDDING_WEIGHTS, contexts.shape).copy()
-    weight[(contexts == tables.self_id) | (contexts == tables.pad_id) | (contexts == 0)] = 0.0
-    vectors = np.asarray(tables.input_vectors[contexts.ravel()], dtype=np.float32).reshape(
+    weight[(contexts == self_id) | (contexts == pad_id) | (contexts == 0)] = 0.0
+    vectors = np.asarray(input_vectors[contexts.ravel()], dtype=np.float32).reshape(
         contexts.shape[0], contexts.shape[1], -1)
     summed = np.zeros((variables, vectors.shape[2]), dtype=np.float64)
     np.add.at(summed, owners, np.einsum("ow,owd->od", weight, vectors))
@@ -331,9 +337,8 @@ def _context_vectors(tables: NameTables, ids: np.ndarray, positions: np.ndarray,
     return (summed / totals[:, None]).astype(np.float32)
 
 
-def _context_vector(tables: NameTables, ids: np.ndarray, variable: Variable) -> np.ndarray:
-    positions, owners, _ = _occurrence_table([variable])
-    return _context_vectors(tables, ids, positions, owners, 1)[0]
+def occurrence_table(variables: list[Variable]) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    return _occurrence_table(variables)
 
 
 def _logsumexp(values: np.ndarray) -> float:

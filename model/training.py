@@ -17,7 +17,7 @@ from .corpus import Corpus, SourceFile
 from .scopes import Variable
 from .scoring import (IGNORED_NAMES, WINDOW, Detector, NameTables, Scorer, Weights, allowed_mask,
                       detection_features, dominant_style, fit_detector, name_fit, occurrence_contexts,
-                      rank_candidates, token_ids, _context_vector)
+                      rank_candidates, token_ids, context_vectors, occurrence_table)
 from .reranking import Reranker, fit_reranker, shortlist_features
 from .vocabulary import Vocabulary, build_vocabulary, count_tokens
 
@@ -154,10 +154,6 @@ def build_tables(files: list[SourceFile], vocabulary: Vocabulary, inputs: np.nda
     self_id, pad_id = vocabulary.id("<self>"), vocabulary.id("<pad>")
     key_parts, row_parts, weight_parts = [], [], []
     evidence: dict[int, list[tuple[str, int, np.ndarray]]] = {}
-    placeholder = NameTables(vocabulary, inputs, outputs, [], [], np.zeros(0, np.float32), np.zeros(0, np.int32),
-                             {}, np.zeros(0, np.int64), np.zeros(0, np.float32), np.zeros(1, np.int64),
-                             np.zeros(0, np.int32), np.zeros(0, np.float32), np.zeros(0, np.int32), [],
-                             np.zeros(0, np.int32), np.zeros(0, np.int32), np.zeros((0, inputs.shape[1]), np.float32))
     order = list(range(len(files)))
     random.Random(settings.seed).shuffle(order)
     for file_index in order:
@@ -179,7 +175,9 @@ def build_tables(files: list[SourceFile], vocabulary: Vocabulary, inputs: np.nda
             places = evidence.setdefault(row, [])
             if not is_background and len(places) < EVIDENCE_PER_NAME and all(p[0] != source.path for p in places):
                 line = source.tokens[variable.occurrences[0]].line
-                places.append((source.path, line, _context_vector(placeholder, ids, variable)))
+                positions, owners, _ = occurrence_table([variable])
+                vector = context_vectors(inputs, self_id, pad_id, ids, positions, owners, 1)[0]
+                places.append((source.path, line, vector))
     if key_parts:
         keys = np.concatenate(key_parts)
         rows = np.concatenate(row_parts)

@@ -74,7 +74,6 @@ class NameServer(LanguageServer):
         self.analysis_pool = ThreadPoolExecutor(max_workers=1, thread_name_prefix="cognomen-analysis")
         self.told_no_model = False
         self.watcher: asyncio.Task | None = None
-        self.last_diagnostics_at: dict[str, float] = {}
         self.model_ready = asyncio.Event()  # set once the first attempt to load a model has ended
 
     # --- model ----------------------------------------------------------------------------
@@ -180,7 +179,6 @@ class NameServer(LanguageServer):
             self.analyses[uri] = analysis
             self.text_document_publish_diagnostics(types.PublishDiagnosticsParams(
                 uri=uri, version=version, diagnostics=self.diagnostics(uri, analysis)))
-            self.last_diagnostics_at[uri] = time.monotonic()
         except asyncio.CancelledError:
             pass
         except Exception:
