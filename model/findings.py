@@ -72,7 +72,7 @@ def check_source(scorer: Scorer, source: SourceFile, threshold: float | None = N
     limit = scorer.threshold if threshold is None else threshold
     findings = []
     variables = [v for v in source.variables if v.name not in IGNORED_NAMES]
-    for judgement in scorer.judge_many(source, variables):
+    for judgement in scorer.judge_many(source, variables, suggest_above=limit if flagged_only else None):
         finding = _finding(source, judgement, scorer, limit)
         if finding.flagged or not flagged_only:
             findings.append(finding)

@@ -110,6 +110,10 @@ class NameTables:
                                             and not name.startswith("_") and fits_style(name, style))
         if self.name_suggestable is not None and len(self.name_suggestable) == len(self.names):
             self.static_allowed &= np.asarray(self.name_suggestable, dtype=bool)
+        # Small arrays are read element by element: keep them in memory rather than memory-mapped.
+        for name in ("name_counts", "name_vocab_rows", "evidence_rows", "evidence_path_ids", "evidence_lines",
+                     "feature_keys", "feature_totals"):
+            setattr(self, name, np.array(getattr(self, name)))
         self.evidence_start = np.searchsorted(self.evidence_rows, np.arange(len(self.names) + 1))
         self.log_counts = np.log(self.name_counts.astype(np.float64) + 1.0)
         self.log_count_smoothed = np.log(self.name_counts.astype(np.float64) + SMOOTHING)
@@ -301,9 +305,8 @@ def _count_scores(tables: NameTables, language: str, rows: np.ndarray, ids: np.n
 
     own = _own_keys(positions, owners, len(ids))
     contexts = _window(ids, positions, owners, _OFFSETS, own, tables.self_id, tables.pad_id)
-    keys = (np.arange(contexts.shape[1], dtype=np.int64)[None, :] * len(tables.vocabulary) + contexts)
+    keys = (np.arange(contexts.shape[1], dtype=np.int64)[None, :] * len(tables.vocabulary) + contexts).ravel()
     feature_owners = np.repeat(owners, contexts.shape[1])
-    keys = keys.ravel()
     scores = np.tile(tables.log_counts[rows] - 2 * WINDOW * tables.log_count_smoothed[rows], (variables, 1))
     if len(tables.feature_keys) == 0:
         return scores
@@ -494,8 +497,12 @@ class Scorer:
         return self.judge_many(source, [variable], ids, limit)[0]
 
     def judge_many(self, source: SourceFile, variables: list[Variable], ids: np.ndarray | None = None,
-                   limit: int = 5, chunk: int = 128) -> list[Judgement]:
-        """Judgements for many variables of one file, scored in batches."""
+                   limit: int = 5, chunk: int = 128, suggest_above: float | None = None) -> list[Judgement]:
+        """Judgements for many variables of one file, scored in batches.
+
+        With suggest_above, names are suggested only for variables whose oddness passes it
+        (the others keep an empty list): the expensive part is skipped where nothing is shown.
+        """
         if ids is None:
             ids = token_ids(source, self.tables.vocabulary)
         judged = [v for v in variables if v.name not in IGNORED_NAMES]
@@ -504,22 +511,24 @@ class Scorer:
             batch = judged[start:start + chunk]
             for variable, ranking in zip(batch, rank_many(self.tables, source, batch, ids, self.weights)):
                 rankings[id(variable)] = ranking
-        return [self._judge_ranked(source, v, rankings.get(id(v)), limit) for v in variables]
+        return [self._judge_ranked(source, v, rankings.get(id(v)), limit, suggest_above) for v in variables]
 
     def _judge_ranked(self, source: SourceFile, variable: Variable, ranking: Ranking | None,
-                      limit: int) -> Judgement:
+                      limit: int, suggest_above: float | None = None) -> Judgement:
         if ranking is None:
             return Judgement(variable, None, [])
         allowed = allowed_mask(self.tables, ranking, variable.bound_names, variable.name)
-        suggestions = self.suggestions(ranking, allowed, limit, variable.bound_names, variable.name)
         fit = name_fit(self.tables, ranking, variable.name, self.weights)
-        if fit is None or not self.tables.judges(source.language):
-            return Judgement(variable, None, suggestions)
-        features = detection_features(self.tables, ranking, allowed, fit, variable.name, variable)
-        if self.detector is not None:
-            oddness = float(self.detector.oddness(features[None, :])[0])
-        else:
-            oddness = float(features[0])
+        oddness, features = None, None
+        if fit is not None and self.tables.judges(source.language):
+            features = detection_features(self.tables, ranking, allowed, fit, variable.name, variable)
+            if self.detector is not None:
+                oddness = float(self.detector.oddness(features[None, :])[0])
+            else:
+                oddness = float(features[0])
+        suggestions = []
+        if suggest_above is None or (oddness is not None and oddness > suggest_above):
+            suggestions = self.suggestions(ranking, allowed, limit, variable.bound_names, variable.name)
         return Judgement(variable, oddness, suggestions, features)
 
     def suggestions(self, ranking: Ranking, allowed: np.ndarray, limit: int,
