@@ -10,6 +10,7 @@ ready <= 1.5 s; memory <= 200 MB.
 from __future__ import annotations
 
 import asyncio
+import shutil
 import statistics
 import subprocess
 import sys
@@ -117,6 +118,11 @@ def analysis_ms(store: Path, path: Path) -> dict:
 def main() -> int:
     with tempfile.TemporaryDirectory(prefix="cognomen-bench-") as scratch:
         workspace = copy_stdlib(Path(scratch) / "stdlib")
+        # More code than the standard library alone, for a vocabulary of about 50,000 tokens.
+        from quality import fetch_debian, fetch_pypi
+        for name, extra in (("networkx", fetch_pypi("networkx", "3.4.2")),
+                            ("xnet", fetch_debian("golang-golang-x-net-dev"))):
+            shutil.copytree(extra, workspace / "extra" / name)
         store = Path(scratch) / "store"
         subprocess.run([sys.executable, "-m", "cognomen", "--model-dir", str(store), "train", "--quiet",
                         "--min-count", "1", str(workspace)], check=True)
