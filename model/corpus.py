@@ -17,7 +17,7 @@ from .tokens import Token, language_for_path, lex
 
 MAX_FILE_BYTES = 1 << 20
 MAX_LINE_CHARS = 1000  # a longer line marks a minified or generated file
-CACHE_FORMAT = 2
+CACHE_FORMAT = 3
 
 DEFAULT_EXCLUDES = (
     "node_modules", "vendor", "third_party", "third-party", "build", "dist", "out", "target",
