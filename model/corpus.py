@@ -261,20 +261,23 @@ class TokenCache:
             return None
 
     def put(self, source: SourceFile) -> None:
+        self.put_record(source.digest, _to_record(source))
+
+    def put_record(self, digest: str, record: dict) -> None:
         if self.directory is None:
             return
-        target = self._path(source.digest)
+        target = self._path(digest)
         try:
             target.parent.mkdir(parents=True, exist_ok=True)
             temporary = target.with_suffix(f".{os.getpid()}.tmp")
-            temporary.write_text(json.dumps(_to_record(source), separators=(",", ":")), encoding="utf-8")
+            temporary.write_text(json.dumps(record, separators=(",", ":")), encoding="utf-8")
             os.replace(temporary, target)
         except OSError:
             pass  # a cache that cannot be written only costs time
 
 
-def _lex_job(job: tuple[str, str, str]) -> tuple[str, dict | str]:
-    root, relative, language = job
+def _lex_job(job: tuple[str, str, str, str | None]) -> tuple[str, dict | str]:
+    root, relative, language, cache_directory = job
     try:
         data = (Path(root) / relative).read_bytes()
     except OSError:
@@ -285,7 +288,9 @@ def _lex_job(job: tuple[str, str, str]) -> tuple[str, dict | str]:
     except SkipFile as skip:
         return relative, str(skip)
     source = analyse(text, relative, language, digest)
-    return relative, _to_record(source) | {"digest": digest}
+    record = _to_record(source)
+    TokenCache(Path(cache_directory) if cache_directory else None).put_record(digest, record)
+    return relative, record | {"digest": digest}
 
 
 @dataclass
@@ -326,7 +331,8 @@ def load_corpus(selection: Selection, cache: TokenCache, workers: int | None = N
             by_path[relative] = cached
             corpus.cached += 1
         else:
-            pending.append((str(selection.root), relative, language))
+            pending.append((str(selection.root), relative, language,
+                            str(cache.directory) if cache.directory else None))
     workers = workers or os.cpu_count() or 1
     done = 0
 
@@ -336,9 +342,7 @@ def load_corpus(selection: Selection, cache: TokenCache, workers: int | None = N
         if isinstance(result, str):
             corpus.skipped[result] = corpus.skipped.get(result, 0) + 1
         else:
-            source = _from_record(result, relative, result["digest"])
-            cache.put(source)
-            by_path[relative] = source
+            by_path[relative] = _from_record(result, relative, result["digest"])
             corpus.lexed += 1
         if progress:
             progress(done, len(pending))

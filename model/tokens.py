@@ -7,7 +7,7 @@ import io
 import keyword
 import re
 import tokenize
-from dataclasses import dataclass
+from typing import NamedTuple
 
 from pygments.lexers import get_lexer_for_filename
 from pygments.token import Comment, Error, Keyword, Literal, Name, Number, Operator, Punctuation, String, Text
@@ -41,8 +41,7 @@ COMMENT = "comment"
 KINDS = (KEYWORD, OPERATOR, NAME, STRING, NUMBER, COMMENT)
 
 
-@dataclass(frozen=True, slots=True)
-class Token:
+class Token(NamedTuple):
     """One lexed token: normalised text, kind and 1-based position (column in characters)."""
 
     text: str
