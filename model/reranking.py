@@ -3,11 +3,10 @@
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
 
 import numpy as np
 
-from .scoring import (IGNORED_NAMES, NameTables, Ranking, Weights, fit_detector, reserved_words)
+from .scoring import IGNORED_NAMES, LinearModel, NameTables, Ranking, Weights, fit_detector, reserved_words
 from .tokens import join_subtokens, split_identifier
 
 SHORTLIST = 30
@@ -109,17 +108,13 @@ def _row(count, embedding, lexical, combined, name_count, composed, rank, best_c
             float(len(split_identifier(name))), 1.0 if name in ranking.context_identifiers else 0.0]
 
 
-@dataclass
-class Reranker:
+class Reranker(LinearModel):
     """Logistic regression over shortlist features: which name is the one the team would use."""
 
-    mean: np.ndarray
-    scale: np.ndarray
-    coefficients: np.ndarray
-    intercept: float
+    FEATURES = FEATURES
 
     def score(self, features: np.ndarray) -> np.ndarray:
-        return ((features - self.mean) / self.scale) @ self.coefficients + self.intercept
+        return self.logit(features)
 
     def rank(self, tables: NameTables, ranking: Ranking, allowed: np.ndarray, bound: frozenset[str], current: str,
              weights: Weights, limit: int) -> list[tuple[str, float, int | None]]:
@@ -132,17 +127,6 @@ class Reranker:
         shares = np.exp(scores - scores.max())
         shares /= shares.sum()
         return [(names[i], float(shares[i]), rows[i]) for i in order]
-
-    def to_json(self) -> dict:
-        return {"features": list(FEATURES), "mean": self.mean.tolist(), "scale": self.scale.tolist(),
-                "coefficients": self.coefficients.tolist(), "intercept": self.intercept}
-
-    @classmethod
-    def from_json(cls, data: dict) -> "Reranker":
-        if data.get("features") != list(FEATURES):
-            raise ValueError("the re-ranker was trained on other features")
-        return cls(np.array(data["mean"]), np.array(data["scale"]), np.array(data["coefficients"]),
-                   float(data["intercept"]))
 
 
 def fit_reranker(features: np.ndarray, labels: np.ndarray) -> Reranker:

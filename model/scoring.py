@@ -5,6 +5,7 @@ from __future__ import annotations
 import keyword
 import math
 from dataclasses import dataclass, field
+from typing import ClassVar
 
 import numpy as np
 
@@ -434,28 +435,38 @@ def detection_features(tables: NameTables, ranking: Ranking, allowed: np.ndarray
 
 
 @dataclass
-class Detector:
-    """Logistic regression over detection features: its logit is the oddness."""
+class LinearModel:
+    """Logistic regression over standardised features, stored with the names of its features."""
 
     mean: np.ndarray
     scale: np.ndarray
     coefficients: np.ndarray
     intercept: float
 
-    def oddness(self, features: np.ndarray) -> np.ndarray:
-        standard = (features - self.mean) / self.scale
-        return standard @ self.coefficients + self.intercept
+    FEATURES: ClassVar[tuple[str, ...]] = ()
+
+    def logit(self, features: np.ndarray) -> np.ndarray:
+        return ((features - self.mean) / self.scale) @ self.coefficients + self.intercept
 
     def to_json(self) -> dict:
-        return {"features": list(FEATURE_NAMES), "mean": self.mean.tolist(), "scale": self.scale.tolist(),
+        return {"features": list(self.FEATURES), "mean": self.mean.tolist(), "scale": self.scale.tolist(),
                 "coefficients": self.coefficients.tolist(), "intercept": self.intercept}
 
     @classmethod
-    def from_json(cls, data: dict) -> "Detector":
-        if data.get("features") != list(FEATURE_NAMES):
-            raise ValueError("the detector was trained on other features")
+    def from_json(cls, data: dict):
+        if data.get("features") != list(cls.FEATURES):
+            raise ValueError(f"the {cls.__name__.lower()} was trained on other features")
         return cls(np.array(data["mean"]), np.array(data["scale"]), np.array(data["coefficients"]),
                    float(data["intercept"]))
+
+
+class Detector(LinearModel):
+    """The detector: its logit over detection features is the oddness."""
+
+    FEATURES = FEATURE_NAMES
+
+    def oddness(self, features: np.ndarray) -> np.ndarray:
+        return self.logit(features)
 
 
 def fit_detector(features: np.ndarray, labels: np.ndarray, l2: float = 1.0, iterations: int = 50) -> Detector:

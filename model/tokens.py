@@ -140,12 +140,7 @@ def _lex_pygments(text: str, language: str, keep_comments: bool, raw: bool) -> l
             previous_kind = COMMENT
             continue
         if kind == STRING:
-            if previous_kind != STRING:
-                tokens.append(Token(value if raw else STRING_TOKEN, STRING, start_line, start_column))
-            elif raw:
-                merged = tokens[-1]
-                tokens[-1] = Token(merged.text + value, STRING, merged.line, merged.column)
-            previous_kind = STRING
+            previous_kind = _add_string(tokens, previous_kind, value, start_line, start_column, raw)
             continue
         if kind == NUMBER:
             tokens.append(Token(stripped if raw else NUMBER_TOKEN, NUMBER, start_line, start_column))
@@ -162,6 +157,17 @@ def _lex_pygments(text: str, language: str, keep_comments: bool, raw: bool) -> l
             tokens.append(Token(stripped, kind, start_line, start_column + leading))
         previous_kind = kind
     return tokens
+
+
+def _add_string(tokens: list[Token], previous_kind: str | None, value: str, line: int, column: int,
+                raw: bool) -> str:
+    """Adjacent string fragments become one string token (its text kept only when raw)."""
+    if previous_kind != STRING:
+        tokens.append(Token(value if raw else STRING_TOKEN, STRING, line, column))
+    elif raw:
+        merged = tokens[-1]
+        tokens[-1] = Token(merged.text + value, STRING, merged.line, merged.column)
+    return STRING
 
 
 _PYTHON_KEYWORDS = frozenset(keyword.kwlist)
@@ -188,12 +194,7 @@ def _lex_python(text: str, keep_comments: bool, raw: bool) -> list[Token] | None
 
     def add_string(value: str, line: int, column: int) -> None:
         nonlocal previous_kind
-        if previous_kind != STRING:
-            tokens.append(Token(value if raw else STRING_TOKEN, STRING, line, column))
-        elif raw:
-            merged = tokens[-1]
-            tokens[-1] = Token(merged.text + value, STRING, merged.line, merged.column)
-        previous_kind = STRING
+        previous_kind = _add_string(tokens, previous_kind, value, line, column, raw)
 
     for kind_code, value, (line, offset), _, line_text in stream:
         column = offset + 1
