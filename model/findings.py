@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import bisect
 import math
 import re
 from dataclasses import dataclass, field
@@ -67,16 +68,62 @@ def analyse_text(text: str, path: str, language: str | None = None) -> SourceFil
 
 
 def check_source(scorer: Scorer, source: SourceFile, threshold: float | None = None,
-                 flagged_only: bool = True) -> list[Finding]:
+                 flagged_only: bool = True, cache: "JudgementCache | None" = None) -> list[Finding]:
     """Every variable whose name does not fit its use (or every judged variable, if asked)."""
     limit = scorer.threshold if threshold is None else threshold
     findings = []
     variables = [v for v in source.variables if v.name not in IGNORED_NAMES]
-    for judgement in scorer.judge_many(source, variables, suggest_above=limit if flagged_only else None):
+    suggest_above = limit if flagged_only else None
+    if cache is not None:
+        judgements = cache.judge(scorer, source, variables, suggest_above)
+    else:
+        judgements = scorer.judge_many(source, variables, suggest_above=suggest_above)
+    for judgement in judgements:
         finding = _finding(source, judgement, scorer, limit)
         if finding.flagged or not flagged_only:
             findings.append(finding)
     return findings
+
+
+class JudgementCache:
+    """Judgements of variables whose whole scope is unchanged, reused while a document is edited.
+
+    A variable is looked up by its name, kind, the text of its scope, where in that scope it
+    occurs and what else is bound there, so an edit elsewhere in the file costs no scoring.
+    """
+
+    def __init__(self) -> None:
+        self.entries: dict[tuple, tuple] = {}
+        self.owner: tuple | None = None
+
+    def judge(self, scorer: Scorer, source: SourceFile, variables: list[Variable],
+              suggest_above: float | None) -> list[Judgement]:
+        owner = (id(scorer), suggest_above)
+        if owner != self.owner:
+            self.entries, self.owner = {}, owner
+        lines = [t.line for t in source.tokens]
+        spans: dict[tuple[int, int], tuple[int, int]] = {}
+        keys = [self._key(source, lines, spans, v) for v in variables]
+        missing = [(v, k) for v, k in zip(variables, keys) if k not in self.entries]
+        if missing:
+            fresh = scorer.judge_many(source, [v for v, _ in missing], suggest_above=suggest_above)
+            for (_, key), judgement in zip(missing, fresh):
+                self.entries[key] = (judgement.oddness, judgement.suggestions, judgement.features)
+        self.entries = {key: self.entries[key] for key in keys}
+        return [Judgement(v, *self.entries[k]) for v, k in zip(variables, keys)]
+
+    @staticmethod
+    def _key(source: SourceFile, lines: list[int], spans: dict, variable: Variable) -> tuple:
+        scope = (variable.scope_start, variable.scope_end)
+        if scope not in spans:
+            first = bisect.bisect_left(lines, scope[0])
+            last = bisect.bisect_right(lines, scope[1])
+            # The context windows reach a few tokens past the scope; include them in the text.
+            first, last = max(0, first - 8), min(len(source.tokens), last + 8)
+            spans[scope] = (first, hash(tuple(t.text for t in source.tokens[first:last])))
+        first, text = spans[scope]
+        return (variable.name, variable.kind, text, tuple(i - first for i in variable.occurrences),
+                hash(variable.bound_names))
 
 
 def variable_at(source: SourceFile, line: int, column: int) -> Variable | None:

@@ -20,7 +20,8 @@ from cognomen import __version__
 from cognomen.model import bundle
 from cognomen.model.bundle import ModelError
 from cognomen.model.corpus import SourceFile
-from cognomen.model.findings import Finding, analyse_text, check_source, complete_binding, suggest_at
+from cognomen.model.findings import (Finding, JudgementCache, analyse_text, check_source, complete_binding,
+                                     suggest_at)
 from cognomen.model.persistence import load_scorer
 from cognomen.model.scoring import Scorer
 from cognomen.model.tokens import language_for_path
@@ -70,6 +71,7 @@ class NameServer(LanguageServer):
         self.model_id: str | None = None
         self.store: Path | None = None
         self.analyses: dict[str, Analysis] = {}
+        self.judgement_caches: dict[str, JudgementCache] = {}
         self.pending: dict[str, asyncio.Task] = {}
         self.analysis_pool = ThreadPoolExecutor(max_workers=1, thread_name_prefix="cognomen-analysis")
         self.told_no_model = False
@@ -200,7 +202,8 @@ class NameServer(LanguageServer):
         source = analyse_text(text, self.relative(path), language)
         if source is None:
             return None
-        findings = check_source(self.scorer, source, self.settings.threshold) if self.scorer else []
+        cache = self.judgement_caches.setdefault(uri, JudgementCache())
+        findings = check_source(self.scorer, source, self.settings.threshold, cache=cache) if self.scorer else []
         minimum = LEVELS.index(self.settings.minimum_level)
         findings = [f for f in findings if LEVELS.index(level_of(f)) >= minimum]
         return Analysis(version, source, findings)
@@ -343,6 +346,7 @@ def build_server(model_dir: str | None = None) -> NameServer:
         if pending:
             pending.cancel()
         ls.analyses.pop(uri, None)
+        ls.judgement_caches.pop(uri, None)
         ls.text_document_publish_diagnostics(types.PublishDiagnosticsParams(uri=uri, diagnostics=[]))
 
     @server.feature(types.TEXT_DOCUMENT_CODE_ACTION, types.CodeActionOptions(
