@@ -26,7 +26,7 @@ class ServerSettings:
     """Languages to give hints for."""
     max_file_size: int = 1 << 20
     """Documents larger than this many characters get no hints."""
-    debounce_ms: int = 75
+    debounce_ms: int = 50
     """Quiet time after an edit before the document is checked again."""
     allow_public_parameter_renames: bool = False
     """Offer renames for parameters of public functions (callers passing them by keyword break)."""
