@@ -33,7 +33,8 @@ def composed_names(tables: NameTables, ranking: Ranking, bound: frozenset[str], 
         parts = [p for p in split_identifier(identifier) if p.isalpha()]
         if not parts:
             continue
-        options = [parts]
+        # A called function's own name describes an action; the thing it returns is in its tail.
+        options = [] if identifier in ranking.called_identifiers else [parts]
         if parts[0] in VERBS and len(parts) > 1:
             options.append(parts[1:])
         if len(parts) > 2:

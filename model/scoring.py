@@ -163,6 +163,7 @@ class Ranking:
     unseen_count: float = 0.0  # the count score of a name never seen as a local
     embedding_normaliser: float = 0.0  # log-sum-exp of the candidates' embedding logits
     context_identifiers: frozenset[str] = frozenset()
+    called_identifiers: frozenset[str] = frozenset()
 
 
 @dataclass
@@ -196,20 +197,23 @@ def occurrence_contexts(ids: np.ndarray, occurrences: list[int], window: int, se
     return context
 
 
-def lexical_context(source: SourceFile, variable: Variable) -> tuple[frozenset[str], frozenset[str]]:
+def lexical_context(source: SourceFile, variable: Variable) -> tuple[frozenset[str], frozenset[str], frozenset[str]]:
     """Sub-tokens of other identifiers near the variable's uses (and of its function's name),
-    and those identifiers themselves."""
+    those identifiers themselves, and the ones among them that are called."""
     own = set(variable.occurrences)
     tokens = source.tokens
     identifiers: set[str] = set()
+    called: set[str] = set()
     for position in variable.occurrences[:MAX_OCCURRENCES]:
         for j in range(max(0, position - LEXICAL_WINDOW), min(len(tokens), position + LEXICAL_WINDOW + 1)):
             if j not in own and tokens[j].kind == NAME:
                 identifiers.add(tokens[j].text)
+                if j + 1 < len(tokens) and tokens[j + 1].text == "(":
+                    called.add(tokens[j].text)
     found: set[str] = set(split_identifier(variable.function)) if variable.function else set()
     for identifier in identifiers:
         found.update(split_identifier(identifier))
-    return frozenset(found - STOP_SUBTOKENS), frozenset(identifiers - RECEIVER_NAMES)
+    return frozenset(found - STOP_SUBTOKENS), frozenset(identifiers - RECEIVER_NAMES), frozenset(called)
 
 
 def lexical_fit(subtokens: frozenset[str], context: frozenset[str]) -> float:
@@ -258,13 +262,14 @@ def rank_many(tables: NameTables, source: SourceFile, variables: list[Variable],
     normalisers = (top + np.log(np.exp(logits - top).sum(axis=1, keepdims=True))).ravel()
     embedding_scores = logits - normalisers[:, None]
     lexical_scores = np.zeros((len(variables), len(rows)), dtype=np.float64)
-    contexts, identifiers = [], []
+    contexts, identifiers, called = [], [], []
     postings = tables.subtoken_columns[source.language]
     sizes = tables.subtoken_sizes[rows]
     for index, variable in enumerate(variables):
-        subtokens, near = lexical_context(source, variable)
+        subtokens, near, calls = lexical_context(source, variable)
         contexts.append(subtokens)
         identifiers.append(near)
+        called.append(calls)
         for subtoken in subtokens:
             columns = postings.get(subtoken)
             if columns is not None and len(columns):
@@ -273,7 +278,7 @@ def rank_many(tables: NameTables, source: SourceFile, variables: list[Variable],
     combined = weights.counts * count_scores + weights.embedding * embedding_scores + weights.lexical * lexical_scores
     return [Ranking(source.language, rows, count_scores[i], embedding_scores[i], lexical_scores[i], combined[i],
                     context_vectors[i], contexts[i], int(counts[i]), unseen_count, float(normalisers[i]),
-                    identifiers[i])
+                    identifiers[i], called[i])
             for i in range(len(variables))]
 
 

@@ -136,7 +136,10 @@ def build_tables(files: list[SourceFile], vocabulary: Vocabulary, inputs: np.nda
         team_words = set()
         for source in files:
             if source.path not in background:
-                team_words.update(t.text for t in source.tokens if t.kind == "name")
+                tokens = source.tokens
+                # Method names (`.get(`, `.items(`) are verbs of other objects, not names for a variable.
+                team_words.update(t.text for i, t in enumerate(tokens) if t.kind == "name" and not (
+                    0 < i < len(tokens) - 1 and tokens[i - 1].text == "." and tokens[i + 1].text == "("))
     names, languages, counts = [], [], []
     styles = {}
     for language in sorted(per_language):
