@@ -257,6 +257,8 @@ class Examples:
     recovered_at: list[int] = field(default_factory=list)  # rank of the true name, per seeded misname
     lines: int = 0
     shortlists: list[tuple[np.ndarray, np.ndarray]] = field(default_factory=list)  # re-ranking rows and labels
+    example_files: list[int] = field(default_factory=list)  # which file each example came from
+    file_lines: list[int] = field(default_factory=list)
 
 
 def collect_examples(tables: NameTables, files: list[SourceFile], seed: int, weights: Weights | None = None,
@@ -269,6 +271,8 @@ def collect_examples(tables: NameTables, files: list[SourceFile], seed: int, wei
         if len(examples.labels) >= limit:
             break  # whole files only, so that flags per line stay honest
         examples.lines += source.lines
+        examples.file_lines.append(source.lines)
+        file_number = len(examples.file_lines) - 1
         ids = token_ids(source, tables.vocabulary)
         local_names = file_local_names(source)
         for variable in source.variables:
@@ -282,6 +286,7 @@ def collect_examples(tables: NameTables, files: list[SourceFile], seed: int, wei
             if fit is not None:
                 examples.features.append(detection_features(tables, ranking, allowed, fit, variable.name, variable))
                 examples.labels.append(0)
+                examples.example_files.append(file_number)
             wrong = seed_misname(source, variable, rng, local_names)
             if wrong is None:
                 continue
@@ -298,7 +303,28 @@ def collect_examples(tables: NameTables, files: list[SourceFile], seed: int, wei
             if fit is not None:
                 examples.features.append(detection_features(tables, ranking, allowed, fit, wrong, renamed))
                 examples.labels.append(1)
+                examples.example_files.append(file_number)
     return examples
+
+
+def calibrate_by_files(oddness_clean: np.ndarray, files: np.ndarray, file_lines: np.ndarray, budget: float,
+                       confidence: float = 0.95, resamples: int = 200, seed: int = 1) -> float:
+    """The lowest threshold whose flags per 1,000 lines stay within budget in `confidence` of
+    bootstrap resamples of whole files: odd-looking names cluster in a few files, so a
+    threshold fitted to one sample of files flags more on the next."""
+    if len(oddness_clean) == 0:
+        return 0.0
+    candidates = np.unique(np.quantile(oddness_clean, np.linspace(0.9, 1.0, 201)))
+    flags = np.zeros((len(file_lines), len(candidates)))
+    for file_number in np.unique(files):
+        values = oddness_clean[files == file_number]
+        flags[file_number] = (values[:, None] > candidates[None, :]).sum(axis=0)
+    rng = np.random.default_rng(seed)
+    picks = rng.integers(0, len(file_lines), size=(resamples, len(file_lines)))
+    rates = flags[picks].sum(axis=1) * 1000.0 / np.maximum(file_lines[picks].sum(axis=1), 1)[:, None]
+    bound = np.quantile(rates, confidence, axis=0)
+    within = np.flatnonzero(bound <= budget)
+    return float(candidates[within[0]]) if len(within) else float(candidates[-1])
 
 
 def calibrate(oddness_clean: np.ndarray, lines: int, budget: float) -> float:
@@ -364,7 +390,9 @@ def train(corpus: Corpus, settings: TrainSettings, progress=None, background: Co
                 oddness = detector.oddness(features)
             else:
                 oddness = features[:, 0]
-            threshold = calibrate(oddness[labels == 0], examples.lines, settings.flag_budget)
+            clean = labels == 0
+            threshold = calibrate_by_files(oddness[clean], np.array(examples.example_files)[clean],
+                                           np.array(examples.file_lines), settings.flag_budget)
             quality.update(detection_quality(oddness, labels, threshold, examples.lines))
             quality["calibration_lines"] = examples.lines
             if examples.lines < MIN_CALIBRATION_LINES:

@@ -130,3 +130,22 @@ def test_a_new_but_sensible_name_is_not_flagged_for_being_new(stdlib_scorer):
     source = analyse(text, "new.py", "python")
     findings = check_source(stdlib_scorer, source)
     assert findings == []
+
+
+def test_calibration_over_files_allows_for_clustered_flags():
+    # 20 files of 500 lines; the odd-looking clean names all sit in two files.
+    rng = np.random.default_rng(1)
+    oddness, files = [], []
+    for file_number in range(20):
+        values = rng.normal(0.0, 1.0, 60)
+        if file_number in (3, 11):
+            values[:6] += 6.0
+        oddness.extend(values)
+        files.extend([file_number] * 60)
+    oddness, files, lines = np.array(oddness), np.array(files), np.full(20, 500)
+    from cognomen.model.training import calibrate_by_files
+    plain = calibrate(oddness, int(lines.sum()), 1.0)
+    robust = calibrate_by_files(oddness, files, lines, 1.0)
+    assert robust > plain
+    # On the sample itself, the robust threshold keeps within the budget (10 flags in 10,000 lines).
+    assert (oddness > robust).sum() <= 10
