@@ -77,6 +77,7 @@ class NameServer(LanguageServer):
         self.told_no_model = False
         self.watcher: asyncio.Task | None = None
         self.model_ready = asyncio.Event()  # set once the first attempt to load a model has ended
+        self.refused_model_id: str | None = None  # a model that failed verification, not retried
 
     # --- model ----------------------------------------------------------------------------
 
@@ -120,6 +121,7 @@ class NameServer(LanguageServer):
             loop = asyncio.get_running_loop()
             scorer, loaded = await loop.run_in_executor(self.analysis_pool, load_scorer, store)
         except ModelError as error:
+            self.refused_model_id = bundle.current_model_id(store)
             log.warning("model refused: %s", error)
             self.window_show_message(types.ShowMessageParams(
                 type=types.MessageType.Warning, message=f"cognomen: {error}"
@@ -147,7 +149,7 @@ class NameServer(LanguageServer):
             if store is None:
                 continue
             current = bundle.current_model_id(store)
-            if current and current != self.model_id:
+            if current and current != self.model_id and current != self.refused_model_id:
                 log.info("a new model %s was promoted; loading it", current)
                 await self.load_model()
 

@@ -201,3 +201,27 @@ async def test_bad_requests_get_errors_and_the_server_keeps_going(workspace):
         other = workspace / "fernhill" / "valves.py"
         diagnostics = await diagnostics_for(client, open_document(client, other))
         assert diagnostics is not None, "still serving after the errors"
+
+
+async def test_a_damaged_new_model_is_refused_and_the_old_one_stays(workspace):
+    store = workspace / ".cognomen"
+    async with lsp_client(workspace, options={"reloadSeconds": 0.2}) as client:
+        uri = open_document(client, workspace / "fernhill" / "alerts.py")
+        assert len(await diagnostics_for(client, uri)) == 1
+        good = (store / "current").read_text().strip()
+        damaged = store / "models" / "damaged-copy"
+        shutil.copytree(store / "models" / good, damaged)
+        vectors = damaged / "output_vectors.npy"
+        vectors.write_bytes(vectors.read_bytes()[:-8] + b"\0" * 8)
+        (store / "current").write_text("damaged-copy\n")
+        for _ in range(200):
+            if any("does not match its checksum" in m.message for m in client.messages):
+                break
+            await asyncio.sleep(0.05)
+        assert any("keeping the model already loaded" in m.message for m in client.messages)
+        await asyncio.sleep(1.0)
+        refusals = [m for m in client.messages if "does not match its checksum" in m.message]
+        assert len(refusals) == 1, "a refused model is reported once, not at every look"
+        hover = await client.text_document_hover_async(types.HoverParams(
+            text_document=types.TextDocumentIdentifier(uri=uri), position=types.Position(line=26, character=9)))
+        assert hover is not None and "`valve` does not fit" in hover.contents.value
