@@ -260,9 +260,6 @@ class TokenCache:
         except (KeyError, TypeError, ValueError):
             return None
 
-    def put(self, source: SourceFile) -> None:
-        self.put_record(source.digest, _to_record(source))
-
     def put_record(self, digest: str, record: dict) -> None:
         if self.directory is None:
             return

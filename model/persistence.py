@@ -6,7 +6,6 @@ import math
 import time
 from pathlib import Path
 
-import numpy as np
 
 from . import bundle as store_files
 from .reranking import Reranker

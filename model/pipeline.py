@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import hashlib
+import json
 import math
 from collections import Counter
 import subprocess
@@ -43,7 +44,7 @@ class TrainResult:
 
 
 STDLIB = "stdlib"
-_STDLIB_EXCLUDES = ["test/*", "*/test/*", "*/tests/*", "*/idle_test/*", "tests/*"]
+STDLIB_EXCLUDES = ["test/*", "*/test/*", "*/tests/*", "*/idle_test/*", "tests/*"]
 
 
 def load_background(names: list[str], cache: TokenCache) -> Corpus | None:
@@ -51,7 +52,7 @@ def load_background(names: list[str], cache: TokenCache) -> Corpus | None:
     files, skipped = [], {}
     for name in names:
         if name == STDLIB:
-            root, settings = Path(sysconfig.get_paths()["stdlib"]), Settings(exclude=list(_STDLIB_EXCLUDES))
+            root, settings = Path(sysconfig.get_paths()["stdlib"]), Settings(exclude=list(STDLIB_EXCLUDES))
         else:
             root, settings = Path(name), Settings()
         if not root.is_dir():
@@ -149,7 +150,7 @@ def train_repository(path: Path, store: Path, settings: TrainSettings, policy: G
     }
     directory = persistence.save(store, trained, manifest)
     model_id = directory.name
-    written = bundle.load_model(directory).manifest
+    written = json.loads((directory / bundle.MANIFEST).read_text(encoding="utf-8"))
     promoted, reason = gate(trained.quality, current_manifest.get("quality", {}) if current_manifest else {}, policy)
     if promoted:
         bundle.promote(store, model_id)

@@ -34,11 +34,6 @@ class Variable:
     bound_names: frozenset[str] = field(default_factory=frozenset)
     scope_kind: str = "function"  # function, lambda, comprehension, or block (token-based languages)
 
-    @property
-    def binding(self) -> int:
-        """Token index of the binding (the first occurrence)."""
-        return self.occurrences[0]
-
 
 def find_variables(text: str, tokens: list[Token], language: str) -> list[Variable]:
     """All function-local variables and parameters of a file, in order of their binding."""

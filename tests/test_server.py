@@ -1,14 +1,13 @@
 """The language server end to end: a real client over stdio, the demo repository, a trained model."""
 
 import asyncio
-import json
 import shutil
 
 import pytest
 from lsprotocol import types
 from pygls.exceptions import JsonRpcException
 
-from .conftest import git, run_cli
+from .conftest import run_cli
 from .lsp_helpers import diagnostics_for, lsp_client, open_document, published
 
 pytestmark = pytest.mark.asyncio(loop_scope="function")

@@ -23,11 +23,10 @@ from common import STDLIB, save  # noqa: E402
 
 from cognomen.model.corpus import Settings, TokenCache, discover, load_corpus  # noqa: E402
 from cognomen.model.evaluation import evaluate_corpus, format_table  # noqa: E402
-from cognomen.model.pipeline import load_background  # noqa: E402
+from cognomen.model.pipeline import STDLIB_EXCLUDES, load_background  # noqa: E402
 from cognomen.model.training import TrainSettings  # noqa: E402
 
 CACHE = Path.home() / ".cache" / "cognomen-bench"
-STDLIB_EXCLUDES = ["test/*", "*/test/*", "*/tests/*", "*/idle_test/*", "tests/*"]
 PYPI = {"requests": "2.32.3", "click": "8.1.7", "networkx": "3.4.2"}
 DOMAINS = {"requests": "HTTP client", "click": "command-line interfaces", "networkx": "graph algorithms"}
 

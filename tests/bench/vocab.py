@@ -17,13 +17,14 @@ sys.path.insert(0, str(Path(__file__).resolve().parent))
 from common import STDLIB, save  # noqa: E402
 
 from cognomen.model.corpus import Settings, discover  # noqa: E402
+from cognomen.model.pipeline import STDLIB_EXCLUDES  # noqa: E402
 from cognomen.model.vocab_report import VARIANT_LABELS, build_report  # noqa: E402
 
 QUOTED = {1_000: 0.63, 60_000: 0.91}
 
 
 def main() -> int:
-    selection = discover(STDLIB, Settings(exclude=["test/*", "*/test/*", "*/tests/*", "*/idle_test/*"]))
+    selection = discover(STDLIB, Settings(exclude=STDLIB_EXCLUDES))
     began = time.monotonic()
     report = build_report(selection.root, selection.files, model_sizes=(50_000,))
     seconds = time.monotonic() - began
