@@ -12,7 +12,8 @@ from concurrent.futures import ProcessPoolExecutor
 from dataclasses import dataclass, field
 from pathlib import Path
 
-from .scopes import Variable, find_variables
+from .chunks import PieceCache, read_python
+from .scopes import Variable, find_variables, python_variables
 from .tokens import Token, language_for_path, lex
 
 MAX_FILE_BYTES = 1 << 20
@@ -203,10 +204,25 @@ def decode_source(data: bytes) -> str:
     return text
 
 
-def analyse(text: str, path: str, language: str, digest: str = "") -> SourceFile:
-    """Lex a file and find its variables."""
-    tokens = lex(text, language)
-    variables = find_variables(text, tokens, language)
+def analyse(text: str, path: str, language: str, digest: str = "", pieces: PieceCache | None = None) -> SourceFile:
+    """Lex a file and find its variables.
+
+    Python is read whole when it compiles and no `pieces` are kept; otherwise one top-level
+    statement at a time (the same result, see `chunks`), reusing the pieces an editor's
+    earlier readings left, and confining a syntax error to the statement that holds it.
+    """
+    tokens = variables = None
+    if language != "python":
+        tokens = lex(text, language)
+        variables = find_variables(text, tokens, language)
+    elif pieces is None:
+        tokens = lex(text, language)
+        try:
+            variables = python_variables(text, tokens)
+        except (SyntaxError, ValueError, RecursionError, MemoryError):
+            variables = None
+    if variables is None:
+        tokens, variables = read_python(text, pieces)
     lines = sum(1 for line in text.splitlines() if line.strip())
     return SourceFile(path, language, digest, lines, tokens, variables)
 

@@ -9,6 +9,7 @@ from dataclasses import dataclass, field
 
 import numpy as np
 
+from .chunks import PieceCache
 from .corpus import SourceFile, analyse
 from .scopes import Variable
 from .scoring import IGNORED_NAMES, Judgement, Scorer, Suggestion, allowed_mask, rank_candidates, token_ids
@@ -59,12 +60,13 @@ def _finding(source: SourceFile, judgement: Judgement, scorer: Scorer, threshold
     )
 
 
-def analyse_text(text: str, path: str, language: str | None = None) -> SourceFile | None:
-    """Lex and scope a document; None when its language is not supported."""
+def analyse_text(text: str, path: str, language: str | None = None,
+                 pieces: PieceCache | None = None) -> SourceFile | None:
+    """Lex and scope a document (reusing `pieces` of earlier readings); None for an unsupported language."""
     language = language or language_for_path(path.rsplit("/", 1)[-1])
     if language is None:
         return None
-    return analyse(text, path, language)
+    return analyse(text, path, language, pieces=pieces)
 
 
 def check_source(scorer: Scorer, source: SourceFile, threshold: float | None = None,
@@ -165,7 +167,8 @@ _BINDING_BEFORE = {
 
 
 def complete_binding(scorer: Scorer, text: str, path: str, line: int, column: int,
-                     language: str | None = None, limit: int = 10) -> list[Suggestion] | None:
+                     language: str | None = None, limit: int = 10,
+                     pieces: PieceCache | None = None) -> list[Suggestion] | None:
     """Names for a variable being bound at a position, ranked by the code around it.
 
     None when the position is not where a new variable is named (an assignment target,
@@ -184,7 +187,7 @@ def complete_binding(scorer: Scorer, text: str, path: str, line: int, column: in
         return None
     rest = _IDENTIFIER_START.match(after).group(0)
     lines[line - 1] = head + HOLE + after[len(rest):]
-    source = analyse("\n".join(lines), path, language)
+    source = analyse("\n".join(lines), path, language, pieces=pieces)
     variable = next((v for v in source.variables if v.name == HOLE), None)
     if variable is None:
         indices = [i for i, t in enumerate(source.tokens) if t.text == HOLE]

@@ -39,7 +39,7 @@ def find_variables(text: str, tokens: list[Token], language: str) -> list[Variab
     """All function-local variables and parameters of a file, in order of their binding."""
     if language == "python":
         try:
-            variables = _python_variables(text, tokens)
+            variables = python_variables(text, tokens)
         except (SyntaxError, ValueError, RecursionError, MemoryError):
             variables = _token_variables(tokens, language)
     else:
@@ -77,11 +77,33 @@ class _Scope:
         self.occurrences: dict[str, list[tuple[int, int, str]]] = {}
 
 
-def _python_variables(text: str, tokens: list[Token]) -> list[Variable]:
+def python_variables(text: str, tokens: list[Token]) -> list[Variable]:
+    """Function-local variables of a whole Python file; raises SyntaxError when it does not compile."""
+    variables, module_names = python_scopes(text, tokens)
+    with_module: dict[frozenset[str], frozenset[str]] = {}
+    for variable in variables:
+        local = variable.bound_names
+        if local not in with_module:
+            with_module[local] = local | module_names
+        variable.bound_names = with_module[local]
+    return variables
+
+
+def python_scopes(text: str, tokens: list[Token], future: str = "") -> tuple[list[Variable], frozenset[str]]:
+    """Function-local variables of Python source and the names its module level binds or uses.
+
+    The variables' bound names leave the module's names out, so that the pieces of a file
+    read one top-level statement at a time can be put together (see `chunks`); `future`
+    holds the file's `from __future__` line for a piece that does not (it changes what
+    annotations bind). Raises SyntaxError (or ValueError) for source that does not compile.
+    """
     with warnings.catch_warnings():
         warnings.simplefilter("ignore")
-        tree = ast.parse(text)
-        top = symtable.symtable(text, "<file>", "exec")
+        tree = ast.parse(future + text)
+        top = symtable.symtable(future + text, "<file>", "exec")
+    shift = future.count("\n")
+    if shift:
+        ast.increment_lineno(tree, -shift)
     lines = text.splitlines()
     name_index = {(t.line, t.column): i for i, t in enumerate(tokens) if t.kind == NAME}
     module_names = frozenset(top.get_identifiers())
@@ -92,7 +114,7 @@ def _python_variables(text: str, tokens: list[Token]) -> list[Variable]:
     def children_by_key(table) -> dict[tuple[str, int], list]:
         grouped: dict[tuple[str, int], list] = {}
         for child in table.get_children():
-            grouped.setdefault((child.get_name(), child.get_lineno()), []).append(child)
+            grouped.setdefault((child.get_name(), child.get_lineno() - shift), []).append(child)
         return grouped
 
     def char_column(line: int, byte_offset: int) -> int:
@@ -212,7 +234,7 @@ def _python_variables(text: str, tokens: list[Token]) -> list[Variable]:
     for scope in scopes:
         if isinstance(scope.node, ast.ClassDef):
             continue
-        bound = _bound_names(scope, module_names)
+        bound = _bound_names(scope)
         is_function = isinstance(scope.node, (ast.FunctionDef, ast.AsyncFunctionDef))
         positional_only = {a.arg for a in scope.node.args.posonlyargs} if is_function else set()
         public = is_function and not scope.node.name.startswith("_")
@@ -237,7 +259,7 @@ def _python_variables(text: str, tokens: list[Token]) -> list[Variable]:
                 scope_kind="function" if is_function else "lambda" if isinstance(scope.node, ast.Lambda)
                 else "comprehension",
             ))
-    return variables
+    return variables, module_names
 
 
 def _annotations(node) -> list[ast.AST]:
@@ -257,9 +279,9 @@ def _all_args(arguments: ast.arguments) -> list[ast.arg]:
     return found
 
 
-def _bound_names(scope: _Scope, module_names: frozenset[str]) -> frozenset[str]:
-    """Names a new name must not take: this scope's, enclosing and nested scopes', the module's."""
-    names = set(module_names)
+def _bound_names(scope: _Scope) -> frozenset[str]:
+    """Names a new name must not take: this scope's, enclosing and nested scopes' (the module's come later)."""
+    names: set[str] = set()
     outer = scope
     while outer is not None:
         names.update(outer.table.get_identifiers())

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import asyncio
 import functools
+import gc
 import logging
 import time
 from concurrent.futures import ThreadPoolExecutor
@@ -12,13 +13,14 @@ from pathlib import Path
 from urllib.parse import unquote, urlparse
 
 from lsprotocol import types
-from pygls.exceptions import JsonRpcInvalidParams
+from pygls.exceptions import JsonRpcException, JsonRpcInternalError, JsonRpcInvalidParams
 from pygls.lsp.server import LanguageServer
 from pygls.workspace.position_codec import ServerTextPosition
 
 from cognomen import __version__
 from cognomen.model import bundle
 from cognomen.model.bundle import ModelError
+from cognomen.model.chunks import PieceCache
 from cognomen.model.corpus import SourceFile
 from cognomen.model.findings import (Finding, JudgementCache, analyse_text, check_source, complete_binding,
                                      suggest_at)
@@ -72,6 +74,7 @@ class NameServer(LanguageServer):
         self.store: Path | None = None
         self.analyses: dict[str, Analysis] = {}
         self.judgement_caches: dict[str, JudgementCache] = {}
+        self.piece_caches: dict[str, PieceCache] = {}  # each document's lexed and scoped statements
         self.pending: dict[str, asyncio.Task] = {}
         self.analysis_pool = ThreadPoolExecutor(max_workers=1, thread_name_prefix="cognomen-analysis")
         self.told_no_model = False
@@ -132,6 +135,10 @@ class NameServer(LanguageServer):
                 self.work_done_progress.end(token, types.WorkDoneProgressEnd(message="done"))
         self.scorer, self.model_id = scorer, loaded.model_id
         self.told_no_model = False
+        # The model's many small objects live as long as it does: keep them out of every
+        # garbage collection, which otherwise walks them all while a document is re-read.
+        gc.collect()
+        gc.freeze()
         log.info("loaded model %s from %s", loaded.model_id, store)
         for uri in list(self.analyses):
             self.schedule(uri, delay=0.0)
@@ -201,7 +208,7 @@ class NameServer(LanguageServer):
             log.info("%s has %d characters, over the %d limit; no hints for it", path, len(text),
                      self.settings.max_file_size)
             return None
-        source = analyse_text(text, self.relative(path), language)
+        source = analyse_text(text, self.relative(path), language, pieces=self.pieces(uri))
         if source is None:
             return None
         cache = self.judgement_caches.setdefault(uri, JudgementCache())
@@ -209,6 +216,9 @@ class NameServer(LanguageServer):
         minimum = LEVELS.index(self.settings.minimum_level)
         findings = [f for f in findings if LEVELS.index(level_of(f)) >= minimum]
         return Analysis(version, source, findings)
+
+    def pieces(self, uri: str) -> PieceCache:
+        return self.piece_caches.setdefault(uri, PieceCache())
 
     def relative(self, path: str) -> str:
         root = self.workspace.root_path if self.workspace else None
@@ -349,6 +359,7 @@ def build_server(model_dir: str | None = None) -> NameServer:
             pending.cancel()
         ls.analyses.pop(uri, None)
         ls.judgement_caches.pop(uri, None)
+        ls.piece_caches.pop(uri, None)
         ls.text_document_publish_diagnostics(types.PublishDiagnosticsParams(uri=uri, diagnostics=[]))
 
     @server.feature(types.TEXT_DOCUMENT_CODE_ACTION, types.CodeActionOptions(
@@ -471,7 +482,8 @@ def completions_for(ls: NameServer, uri: str, position: types.Position) -> types
     language = language_for_path(path.rsplit("/", 1)[-1])
     if language is None or language not in ls.settings.languages:
         return None
-    names = complete_binding(ls.scorer, document.source, ls.relative(path), line, column, language)
+    names = complete_binding(ls.scorer, document.source, ls.relative(path), line, column, language,
+                             pieces=ls.pieces(uri))
     if not names:
         return None
     items = [types.CompletionItem(label=s.name, kind=types.CompletionItemKind.Variable,
@@ -481,9 +493,22 @@ def completions_for(ls: NameServer, uri: str, position: types.Position) -> types
     return types.CompletionList(is_incomplete=True, items=items)
 
 
+class ClientMistakes(logging.Filter):
+    """A request the client got wrong (a position outside the document) is answered with a protocol
+    error; the log gets one plain line for it, not a traceback."""
+
+    def filter(self, record: logging.LogRecord) -> bool:
+        error = record.exc_info[1] if record.exc_info else None
+        if isinstance(error, JsonRpcException) and not isinstance(error, JsonRpcInternalError):
+            record.msg, record.args, record.exc_info = "answered a request with a protocol error: %s", (error,), None
+            record.levelno, record.levelname = logging.INFO, "INFO"
+        return True
+
+
 def serve(model_dir: str | None = None, tcp: str | None = None) -> int:
     """Run the server over stdio (or TCP host:port); stdout carries only the protocol."""
     logging.basicConfig(level=logging.WARNING, format="cognomen %(levelname)s %(name)s: %(message)s")
+    logging.getLogger("pygls.protocol.json_rpc").addFilter(ClientMistakes())
     logging.getLogger("cognomen").setLevel(logging.INFO)
     server = build_server(model_dir)
     handler = ClientLogHandler(server)

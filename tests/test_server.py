@@ -178,7 +178,7 @@ async def test_new_model_is_loaded_without_a_restart(workspace):
         assert any(isinstance(r, types.WorkDoneProgressEnd) for r in reports)
 
 
-async def test_bad_requests_get_errors_and_the_server_keeps_going(workspace):
+async def test_bad_requests_get_errors_and_the_server_keeps_going(workspace, capfd):
     path = workspace / "fernhill" / "alerts.py"
     async with lsp_client(workspace, options={"maxFileSize": 50_000}) as client:
         uri = open_document(client, path)
@@ -200,6 +200,10 @@ async def test_bad_requests_get_errors_and_the_server_keeps_going(workspace):
         other = workspace / "fernhill" / "valves.py"
         diagnostics = await diagnostics_for(client, open_document(client, other))
         assert diagnostics is not None, "still serving after the errors"
+    # The server's log (its stderr, forwarded by pytest-lsp) tells of the error in one line.
+    log = capfd.readouterr().err
+    assert "answered a request with a protocol error" in log
+    assert "Traceback" not in log
 
 
 async def test_a_damaged_new_model_is_refused_and_the_old_one_stays(workspace):
