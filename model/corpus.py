@@ -18,7 +18,7 @@ from .tokens import Token, language_for_path, lex
 
 MAX_FILE_BYTES = 1 << 20
 MAX_LINE_CHARS = 1000  # a longer line marks a minified or generated file
-CACHE_FORMAT = 3
+CACHE_FORMAT = 4
 
 DEFAULT_EXCLUDES = (
     "node_modules", "vendor", "third_party", "third-party", "build", "dist", "out", "target",
@@ -228,6 +228,12 @@ def analyse(text: str, path: str, language: str, digest: str = "", pieces: Piece
 
 
 def _to_record(source: SourceFile) -> dict:
+    # Variables of one scope share their bound names, and every scope shares the module's:
+    # store each distinct set once, less what all of them have in common.
+    sets: dict[frozenset[str], int] = {}
+    for v in source.variables:
+        sets.setdefault(v.bound_names, len(sets))
+    common = frozenset.intersection(*sets) if sets else frozenset()
     return {
         "format": CACHE_FORMAT,
         "language": source.language,
@@ -236,8 +242,10 @@ def _to_record(source: SourceFile) -> dict:
         "kind": "".join(_LETTER_BY_KIND[t.kind] for t in source.tokens),
         "line": [t.line for t in source.tokens],
         "column": [t.column for t in source.tokens],
+        "bound_common": sorted(common),
+        "bound_sets": [sorted(names - common) for names in sets],
         "variables": [[v.name, v.kind, v.occurrences, v.scope_start, v.scope_end, v.function,
-                       v.public_parameter, sorted(v.bound_names), v.scope_kind] for v in source.variables],
+                       v.public_parameter, sets[v.bound_names], v.scope_kind] for v in source.variables],
     }
 
 
@@ -248,7 +256,9 @@ _KIND_BY_LETTER = {letter: kind for kind, letter in _LETTER_BY_KIND.items()}
 def _from_record(record: dict, path: str, digest: str) -> SourceFile:
     tokens = [Token(text, _KIND_BY_LETTER[letter], line, column)
               for text, letter, line, column in zip(record["text"], record["kind"], record["line"], record["column"])]
-    variables = [Variable(name, kind, occurrences, start, end, function, public, frozenset(bound), scope_kind)
+    common = frozenset(record["bound_common"])
+    sets = [common.union(names) for names in record["bound_sets"]]
+    variables = [Variable(name, kind, occurrences, start, end, function, public, sets[bound], scope_kind)
                  for name, kind, occurrences, start, end, function, public, bound, scope_kind in record["variables"]]
     return SourceFile(path, record["language"], digest, record["lines"], tokens, variables)
 

@@ -38,7 +38,7 @@ def fetch_pypi(name: str, version: str) -> Path:
         downloads.mkdir(parents=True, exist_ok=True)
         subprocess.run([sys.executable, "-m", "pip", "download", "--quiet", "--no-deps", "--only-binary", ":all:",
                         "-d", str(downloads), f"{name}=={version}"], check=True)
-        wheel = next(downloads.glob(f"{name}-{version}-*.whl"))
+        wheel = next(w for w in downloads.glob("*.whl") if w.name.lower().startswith(f"{name}-{version}-".lower()))
         with zipfile.ZipFile(wheel) as archive:
             archive.extractall(target)
     return target

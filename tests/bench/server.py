@@ -162,6 +162,9 @@ def main() -> int:
         for name, extra in (("networkx", fetch_pypi("networkx", "3.4.2")),
                             ("requests", fetch_pypi("requests", "2.32.3")),
                             ("click", fetch_pypi("click", "8.1.7")),
+                            ("pygments", fetch_pypi("pygments", "2.18.0")),
+                            ("docutils", fetch_pypi("docutils", "0.21.2")),
+                            ("django", fetch_pypi("django", "5.1.4")),
                             ("moment", fetch_npm("moment", "2.30.1")),
                             ("lodash", fetch_npm("lodash", "4.17.21")),
                             ("xnet", fetch_debian("golang-golang-x-net-dev"))):
