@@ -75,3 +75,31 @@ def test_language_from_file_name_only():
     assert language_for_path("c.go") == "go"
     assert language_for_path("README.md") is None
     assert language_for_path("Makefile") is None
+
+
+def test_the_fast_python_scanner_yields_what_tokenize_yields_on_the_standard_library():
+    """Every fifth module of the running Python's standard library (tests included: they hold the
+    odd cases), in both modes; the scanner may hand a file to tokenize, but never disagree."""
+    from cognomen.model.tokens import _UNUSUAL, _scan_python, _tokenize_python
+
+    from .conftest import STDLIB
+    files = sorted(p for p in STDLIB.rglob("*.py") if "site-packages" not in p.parts)[::5]
+    scanned = 0
+    for path in files:
+        try:
+            text = path.read_text(encoding="utf-8")
+        except (UnicodeDecodeError, OSError):
+            continue
+        for raw in (False, True):
+            fast = _scan_python(text, False, raw)
+            if fast is _UNUSUAL:
+                continue
+            scanned += 1
+            assert fast == _tokenize_python(text, False, raw), path
+    assert scanned > len(files)
+
+
+@pytest.mark.parametrize("text", ["x = (1,\n", "x = 1 + \\\n", 'x = """open\n', "values = [\n    1,\n"])
+def test_python_ending_inside_brackets_or_strings_does_not_lex(text):
+    from cognomen.model.tokens import _lex_python
+    assert _lex_python(text, False, False) is None
