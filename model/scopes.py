@@ -58,6 +58,10 @@ _COMPREHENSION_NAMES = {ast.ListComp: "listcomp", ast.SetComp: "setcomp", ast.Di
                         ast.GeneratorExp: "genexpr"}
 
 
+# Nodes that never hold a name: contexts, operators, constants, import aliases.
+_LEAVES = (ast.expr_context, ast.operator, ast.cmpop, ast.boolop, ast.unaryop, ast.Constant, ast.alias)
+
+
 def _table_key(node: ast.AST) -> tuple[str, int]:
     if isinstance(node, (ast.FunctionDef, ast.AsyncFunctionDef, ast.ClassDef)):
         return node.name, node.lineno
@@ -104,7 +108,8 @@ def python_scopes(text: str, tokens: list[Token], future: str = "") -> tuple[lis
     shift = future.count("\n")
     if shift:
         ast.increment_lineno(tree, -shift)
-    lines = text.splitlines()
+    lines = text.split("\n")
+    wide_lines = {number for number, line in enumerate(lines, 1) if not line.isascii()}
     name_index = {(t.line, t.column): i for i, t in enumerate(tokens) if t.kind == NAME}
     module_names = frozenset(top.get_identifiers())
 
@@ -118,7 +123,7 @@ def python_scopes(text: str, tokens: list[Token], future: str = "") -> tuple[lis
         return grouped
 
     def char_column(line: int, byte_offset: int) -> int:
-        if 0 < line <= len(lines):
+        if line in wide_lines:  # ast counts bytes of UTF-8; only lines beyond ASCII differ from characters
             return len(lines[line - 1].encode("utf-8")[:byte_offset].decode("utf-8", "replace")) + 1
         return byte_offset + 1
 
@@ -162,10 +167,19 @@ def python_scopes(text: str, tokens: list[Token], future: str = "") -> tuple[lis
         return found
 
     def visit(node: ast.AST, scope: _Scope | None, children: dict) -> None:
-        for child in ast.iter_child_nodes(node):
-            visit_node(child, scope, children)
+        for field in node._fields:
+            value = getattr(node, field, None)
+            if isinstance(value, list):
+                for item in value:
+                    if isinstance(item, ast.AST) and not isinstance(item, _LEAVES):
+                        visit_node(item, scope, children)
+            elif isinstance(value, ast.AST) and not isinstance(value, _LEAVES):
+                visit_node(value, scope, children)
 
     def visit_node(node: ast.AST, scope: _Scope | None, children: dict) -> None:
+        if isinstance(node, ast.Name):
+            record(scope, node.id, node.lineno, char_column(node.lineno, node.col_offset), LOCAL)
+            return
         if isinstance(node, _SCOPE_NODES):
             # Decorators, defaults, bases and the first iterable belong to the enclosing scope.
             if isinstance(node, (ast.FunctionDef, ast.AsyncFunctionDef, ast.ClassDef)):
@@ -212,9 +226,7 @@ def python_scopes(text: str, tokens: list[Token], future: str = "") -> tuple[lis
                     if hasattr(node, part):
                         visit_node(getattr(node, part), inner, grandchildren)
             return
-        if isinstance(node, ast.Name):
-            record(scope, node.id, node.lineno, char_column(node.lineno, node.col_offset), LOCAL)
-        elif isinstance(node, ast.ExceptHandler) and node.name:
+        if isinstance(node, ast.ExceptHandler) and node.name:
             where = search_name(node, node.name)
             if where:
                 record(scope, node.name, *where, LOCAL)
