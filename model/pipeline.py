@@ -2,18 +2,18 @@
 
 from __future__ import annotations
 
+import gc
 import hashlib
 import json
 import math
-from collections import Counter
 import subprocess
+import sysconfig
 import time
+from collections import Counter
 from dataclasses import dataclass, field
 from pathlib import Path
 
 from . import bundle, persistence
-import sysconfig
-
 from .corpus import Corpus, Settings, TokenCache, discover, load_corpus, read_settings
 from .training import TrainSettings, settings_dict, train
 from .vocab_report import model_coverage
@@ -136,7 +136,13 @@ def train_repository(path: Path, store: Path, settings: TrainSettings, policy: G
                            corpus, current_manifest, {"corpus": round(corpus_seconds, 2)}, unchanged=True)
     extra = load_background(background or [], TokenCache(store / "cache"))
     report("training", corpus)
-    trained = train(corpus, settings, progress=lambda *args: report("epoch", *args), background=extra)
+    # The corpus's million tokens live until the run ends and hold no reference cycles: keep
+    # them out of the garbage collector's walks while the model is trained.
+    gc.freeze()
+    try:
+        trained = train(corpus, settings, progress=lambda *args: report("epoch", *args), background=extra)
+    finally:
+        gc.unfreeze()
     identifiers = Counter(t.text for f in corpus.files for t in f.tokens if t.kind == "name")
     manifest = {
         "coverage": dict(model_coverage(identifiers, set(trained.vocabulary.tokens)),
