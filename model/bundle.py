@@ -13,7 +13,7 @@ from pathlib import Path
 
 import numpy as np
 
-FORMAT_VERSION = 2
+FORMAT_VERSION = 3
 MANIFEST = "manifest.json"
 CURRENT = "current"
 

@@ -10,6 +10,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from .corpus import Corpus
+from .reranking import composed_names
 from .scoring import IGNORED_NAMES, Scorer, allowed_mask, detection_features, name_fit, rank_candidates, token_ids
 from .training import TrainSettings, auc, file_local_names, rename, seed_misname, split_files, train
 
@@ -23,6 +24,7 @@ class Tally:
     clean: list[float] = field(default_factory=list)
     seeded: list[float] = field(default_factory=list)
     ranks: list[int] = field(default_factory=list)  # 0 when the true name is not in the top 10
+    reachable: list[bool] = field(default_factory=list)  # the true name is among the names ranked at all
 
 
 def recovery_at(ranks: list[int], k: int) -> float:
@@ -55,6 +57,10 @@ def metrics(tally: Tally, lines: int, threshold: float | None) -> dict:
         "detection_auc": auc(seeded, clean),
         "recall_at_1_per_kloc": float((seeded > at_one).mean()) if seeded.size else float("nan"),
     }
+    if tally.reachable:
+        # The ceiling for recovery: a true name the candidates (and composed names) never hold
+        # cannot be suggested, however well the candidates are ordered.
+        result["true_name_reachable"] = float(np.mean(tally.reachable))
     if threshold is not None:
         result["recall_at_threshold"] = float((seeded > threshold).mean()) if seeded.size else float("nan")
         result["false_alarms_per_kloc"] = false_alarms_per_kloc(clean, threshold, lines)
@@ -136,6 +142,9 @@ def _tally(tallies: dict[str, Tally], scorer: Scorer, ranking, allowed, name, va
         return
     suggested = [s.name for s in scorer.suggestions(ranking, allowed, 10, variable.bound_names, name)]
     tallies["model"].ranks.append(suggested.index(truth) + 1 if truth in suggested else 0)
+    row = tables.row_by_name.get((ranking.language, truth))
+    in_table = row is not None and bool(allowed[int(np.searchsorted(ranking.rows, row))])
+    tallies["model"].reachable.append(in_table or truth in composed_names(tables, ranking, variable.bound_names, name))
     orders = {
         "context counts": ranking.count_scores,
         "most frequent": tables.log_counts[ranking.rows],
@@ -161,4 +170,8 @@ def format_table(result: dict) -> str:
             value = figures.get(column)
             cells.append(f"{'-':>14}" if value is None or value != value else f"{value:>14.3f}")
         lines.append(f"{name:16}" + "".join(cells))
+    reachable = result["scorers"].get("model", {}).get("true_name_reachable")
+    if reachable is not None:
+        lines.append(f"the true name was among the names ranked at all for {reachable:.1%} of seeded misnames "
+                     f"(the ceiling for recovery)")
     return "\n".join(lines)

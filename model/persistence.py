@@ -11,11 +11,12 @@ from . import bundle as store_files
 from .reranking import Reranker
 from .scoring import Detector, NameTables, Scorer, Weights
 from .training import TrainedModel
+from .usage import USAGES
 from .vocabulary import Vocabulary
 
 _TABLE_ARRAYS = ("input_vectors", "output_vectors", "name_counts", "name_vocab_rows", "name_suggestable", "feature_keys",
                  "feature_totals", "context_indptr", "context_columns", "context_counts", "evidence_rows",
-                 "evidence_path_ids", "evidence_lines", "evidence_vectors")
+                 "evidence_path_ids", "evidence_lines", "evidence_vectors", "usage_counts", "usage_variables")
 
 
 def save(store: Path, trained: TrainedModel, manifest: dict) -> Path:
@@ -25,7 +26,7 @@ def save(store: Path, trained: TrainedModel, manifest: dict) -> Path:
         "vocabulary": trained.vocabulary.to_json(),
         "names": {"names": tables.names, "languages": tables.name_languages, "styles": tables.styles,
                   "evidence_paths": tables.evidence_paths, "total_occurrences": tables.total_occurrences,
-                  "variables_per_language": tables.variables_per_language},
+                  "variables_per_language": tables.variables_per_language, "positional": tables.positional},
     }
     if trained.detector is not None:
         documents["detector"] = trained.detector.to_json()
@@ -52,6 +53,7 @@ def scorer_from_bundle(loaded: store_files.Bundle) -> Scorer:
             evidence_paths=list(names["evidence_paths"]),
             total_occurrences=float(names["total_occurrences"]),
             variables_per_language={k: int(v) for k, v in names.get("variables_per_language", {}).items()},
+            positional=bool(names.get("positional", True)),
             **{name: arrays[name] for name in _TABLE_ARRAYS},
         )
         _check_shapes(tables)
@@ -62,7 +64,8 @@ def scorer_from_bundle(loaded: store_files.Bundle) -> Scorer:
         chosen = loaded.manifest.get("settings", {})
         weights = Weights(embedding=float(chosen.get("embedding_weight", 1.0)),
                           lexical=float(chosen.get("lexical_weight", 3.0)),
-                          counts=float(chosen.get("count_weight", 1.0)))
+                          counts=float(chosen.get("count_weight", 1.0)),
+                          usage=float(chosen.get("usage_weight", 1.0)))
     except (KeyError, TypeError, ValueError) as error:
         raise store_files.ModelError(f"model {loaded.model_id} is inconsistent ({error}); retrain it") from None
     return Scorer(tables, detector, threshold, weights, reranker)
@@ -80,6 +83,8 @@ def _check_shapes(tables: NameTables) -> None:
         "context_indptr": (tables.context_indptr.shape, (len(tables.feature_keys) + 1,)),
         "context_counts": (tables.context_counts.shape, tables.context_columns.shape),
         "evidence_vectors": (tables.evidence_vectors.shape, (len(tables.evidence_rows), dimensions)),
+        "usage_counts": (tables.usage_counts.shape, (names, len(USAGES))),
+        "usage_variables": (tables.usage_variables.shape, (names,)),
     }
     for name, (actual, expected) in expectations.items():
         if tuple(actual) != tuple(expected):

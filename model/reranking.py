@@ -20,7 +20,7 @@ VERBS = frozenset("""get set load make create read parse build compute find fetc
 FUNCTION_WORDS = frozenset("by of for in to from with at on as and or if is has get set".split())
 
 FEATURES = ("count", "embedding", "lexical", "combined", "log_name_count", "composed", "log_rank",
-            "count_gap", "embedding_gap", "subtokens", "verbatim_in_context")
+            "count_gap", "embedding_gap", "subtokens", "verbatim_in_context", "usage")
 
 
 def composed_names(tables: NameTables, ranking: Ranking, bound: frozenset[str], current: str) -> list[str]:
@@ -88,8 +88,9 @@ def shortlist_features(tables: NameTables, ranking: Ranking, allowed: np.ndarray
                                      float(ranking.lexical_scores[index]))
         names.append(name)
         rows.append(row)
+        usage = float(ranking.usage_scores[index]) if ranking.usage_scores is not None else 0.0
         features.append(_row(count, embedding, lexical, float(combined[index]), float(tables.name_counts[row]),
-                             False, rank, best_count, best_embedding, name, ranking))
+                             False, rank, best_count, best_embedding, name, ranking, usage))
     for name in composed_names(tables, ranking, bound, current):
         count, embedding, lexical = _composed_scores(tables, ranking, name, weights)
         total = weights.counts * count + weights.embedding * embedding + weights.lexical * lexical
@@ -97,16 +98,16 @@ def shortlist_features(tables: NameTables, ranking: Ranking, allowed: np.ndarray
         names.append(name)
         rows.append(None)
         features.append(_row(count, embedding, lexical, total, 0.0, True, rank, best_count, best_embedding,
-                             name, ranking))
+                             name, ranking, 0.0))
     matrix = np.array(features, dtype=np.float64).reshape(len(features), len(FEATURES))
     return names, rows, matrix
 
 
 def _row(count, embedding, lexical, combined, name_count, composed, rank, best_count, best_embedding, name,
-         ranking) -> list[float]:
+         ranking, usage) -> list[float]:
     return [count, embedding, lexical, combined, math.log1p(name_count), 1.0 if composed else 0.0,
             math.log1p(rank), count - best_count, embedding - best_embedding,
-            float(len(split_identifier(name))), 1.0 if name in ranking.context_identifiers else 0.0]
+            float(len(split_identifier(name))), 1.0 if name in ranking.context_identifiers else 0.0, usage]
 
 
 class Reranker(LinearModel):

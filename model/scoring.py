@@ -12,6 +12,7 @@ import numpy as np
 from .corpus import SourceFile
 from .scopes import PYTHON_BUILTINS, PYTHON_KEYWORDS, RECEIVER_NAMES, Variable
 from .tokens import NAME, case_style, fits_style, split_identifier
+from .usage import profile_logs, profile_scores, usage_flags
 from .vocabulary import PAD_TOKEN, SELF_TOKEN, Vocabulary
 
 WINDOW = 3  # neighbours each side for the position-specific counts
@@ -83,6 +84,9 @@ class NameTables:
     total_occurrences: float = 1.0
     name_suggestable: np.ndarray | None = None  # (C,) bool: may be offered as a new name
     variables_per_language: dict[str, int] = field(default_factory=dict)
+    usage_counts: np.ndarray | None = None  # (C, len(USAGES)) float32: variables of each name showing each pattern
+    usage_variables: np.ndarray | None = None  # (C,) float32: variables of each name
+    positional: bool = True  # context counts keep each neighbour's offset (False: a bag of neighbours)
 
     def judges(self, language: str) -> bool:
         """Whether the model saw enough variables of a language to call a name odd in it."""
@@ -132,6 +136,13 @@ class NameTables:
         evidence = csr_matrix((values, np.asarray(self.context_columns), np.asarray(self.context_indptr)),
                               shape=(features, len(self.names)))
         self.context_evidence = {lang: evidence[:, rows].tocsr() for lang, rows in self.rows_by_language.items()}
+        self.usage_profiles: dict[str, tuple[np.ndarray, np.ndarray]] = {}
+        if self.usage_counts is not None and self.usage_variables is not None:
+            counts = np.asarray(self.usage_counts, dtype=np.float64)
+            variables = np.asarray(self.usage_variables, dtype=np.float64)
+            for language, rows in self.rows_by_language.items():
+                if variables[rows].sum() > 0:
+                    self.usage_profiles[language] = profile_logs(counts[rows], variables[rows])
         self.subtoken_columns: dict[str, dict[str, np.ndarray]] = {}
         for language, rows in self.rows_by_language.items():
             local = {int(row): column for column, row in enumerate(rows)}
@@ -164,6 +175,7 @@ class Ranking:
     embedding_normaliser: float = 0.0  # log-sum-exp of the candidates' embedding logits
     context_identifiers: frozenset[str] = frozenset()
     called_identifiers: frozenset[str] = frozenset()
+    usage_scores: np.ndarray | None = None  # how well each candidate's usage profile fits the variable's
 
 
 @dataclass
@@ -233,6 +245,7 @@ class Weights:
     embedding: float = 1.0
     lexical: float = 3.0
     counts: float = 1.0
+    usage: float = 1.0
 
 
 def rank_candidates(tables: NameTables, source: SourceFile, variable: Variable, ids: np.ndarray,
@@ -277,9 +290,16 @@ def rank_many(tables: NameTables, source: SourceFile, variables: list[Variable],
                 lexical_scores[index, columns] += 1.0
     lexical_scores /= sizes[None, :]
     combined = weights.counts * count_scores + weights.embedding * embedding_scores + weights.lexical * lexical_scores
+    profile = tables.usage_profiles.get(source.language)
+    if profile is not None:
+        flags = np.stack([usage_flags(source.tokens, v.occurrences, MAX_OCCURRENCES) for v in variables])
+        usage_scores = profile_scores(flags, *profile)
+        combined += weights.usage * usage_scores
+    else:
+        usage_scores = np.zeros_like(combined)
     return [Ranking(source.language, rows, count_scores[i], embedding_scores[i], lexical_scores[i], combined[i],
                     vectors[i], contexts[i], int(counts[i]), unseen_count, float(normalisers[i]),
-                    identifiers[i], called[i])
+                    identifiers[i], called[i], usage_scores[i])
             for i in range(len(variables))]
 
 
@@ -312,7 +332,8 @@ def _count_scores(tables: NameTables, language: str, rows: np.ndarray, ids: np.n
 
     own = _own_keys(positions, owners, len(ids))
     contexts = _window(ids, positions, owners, _OFFSETS, own, tables.self_id, tables.pad_id)
-    keys = (np.arange(contexts.shape[1], dtype=np.int64)[None, :] * len(tables.vocabulary) + contexts).ravel()
+    slots = np.arange(contexts.shape[1], dtype=np.int64) if tables.positional else np.zeros(contexts.shape[1], np.int64)
+    keys = (slots[None, :] * len(tables.vocabulary) + contexts).ravel()
     feature_owners = np.repeat(owners, contexts.shape[1])
     scores = np.tile(tables.log_counts[rows] - 2 * WINDOW * tables.log_count_smoothed[rows], (variables, 1))
     if len(tables.feature_keys) == 0:
@@ -368,6 +389,7 @@ class NameFit:
     rank: int
     known: bool
     parts_known: float = 1.0
+    usage: float = 0.0
 
 
 def name_fit(tables: NameTables, ranking: Ranking, name: str, weights: Weights | None = None) -> NameFit | None:
@@ -382,9 +404,10 @@ def name_fit(tables: NameTables, ranking: Ranking, name: str, weights: Weights |
         index = int(np.searchsorted(ranking.rows, row))
         count = float(ranking.count_scores[index])
         embedding = float(ranking.embedding_scores[index])
+        usage = float(ranking.usage_scores[index]) if ranking.usage_scores is not None else 0.0
         known, parts_known = True, 1.0
     else:
-        known = False
+        known, usage = False, 0.0  # a name never seen has only the overall usage profile
         part_rows = [tables.row_by_name.get((ranking.language, part)) for part in subtokens]
         indices = np.searchsorted(ranking.rows, [r for r in part_rows if r is not None]).astype(np.int64)
         count = float(ranking.count_scores[indices].mean()) if len(indices) else ranking.unseen_count
@@ -395,15 +418,15 @@ def name_fit(tables: NameTables, ranking: Ranking, name: str, weights: Weights |
             embedding = float(composed @ ranking.context_vector) - ranking.embedding_normaliser
         else:
             embedding = float(ranking.embedding_scores.min())
-    combined = weights.counts * count + weights.embedding * embedding + weights.lexical * lexical
+    combined = weights.counts * count + weights.embedding * embedding + weights.lexical * lexical + weights.usage * usage
     rank = int((ranking.combined > combined).sum())
-    return NameFit(count, embedding, lexical, combined, rank, known, parts_known)
+    return NameFit(count, embedding, lexical, combined, rank, known, parts_known, usage)
 
 
 FEATURE_NAMES = (
     "combined_gap", "count_gap", "embedding_gap", "lexical_current", "lexical_best", "log_rank",
     "log_name_count", "known", "log_occurrences", "is_parameter", "embedding_current", "count_current_gap_top1",
-    "parts_known",
+    "parts_known", "usage_gap", "usage_current",
 )
 
 
@@ -428,6 +451,9 @@ def detection_features(tables: NameTables, ranking: Ranking, allowed: np.ndarray
         fit.embedding,
         float(ranking.count_scores[best]) - fit.count,
         fit.parts_known,
+        (float(np.max(np.where(allowed, ranking.usage_scores, -np.inf))) - fit.usage
+         if ranking.usage_scores is not None and allowed.any() else 0.0),
+        fit.usage,
     ], dtype=np.float64)
 
 

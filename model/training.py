@@ -18,6 +18,7 @@ from .scoring import (IGNORED_NAMES, WINDOW, Detector, NameTables, Scorer, Weigh
                       detection_features, dominant_style, fit_detector, name_fit, occurrence_contexts,
                       rank_candidates, token_ids, context_vectors, occurrence_table)
 from .reranking import Reranker, fit_reranker, shortlist_features
+from .usage import USAGES, usage_flags
 from .vocabulary import Vocabulary, build_vocabulary, count_tokens
 
 MAX_SENTENCE = 10_000  # gensim silently truncates longer sentences
@@ -43,13 +44,17 @@ class TrainSettings:
     embedding_weight: float = 1.0
     lexical_weight: float = 3.0
     count_weight: float = 1.0
+    usage_weight: float = 1.0
+    use_usage: bool = True  # learn each name's usage profile (iterated, called, compared with None, ...)
+    positional_counts: bool = True  # count each neighbour at its offset; False pools them (a bag)
     use_detector: bool = True
     use_reranker: bool = True
     background_weight: float = 0.3  # how much a background corpus file counts against a team file
 
     @property
     def weights(self) -> Weights:
-        return Weights(embedding=self.embedding_weight, lexical=self.lexical_weight, counts=self.count_weight)
+        return Weights(embedding=self.embedding_weight, lexical=self.lexical_weight, counts=self.count_weight,
+                       usage=self.usage_weight)
 
 
 def split_files(paths: list[str], share: float, seed: int) -> tuple[set[str], set[str]]:
@@ -148,6 +153,8 @@ def build_tables(files: list[SourceFile], vocabulary: Vocabulary, inputs: np.nda
     vocabulary_size = len(vocabulary)
     self_id, pad_id = vocabulary.id("<self>"), vocabulary.id("<pad>")
     key_parts, row_parts, weight_parts = [], [], []
+    usage_counts = np.zeros((len(names), len(USAGES)), dtype=np.float64)
+    usage_variables = np.zeros(len(names), dtype=np.float64)
     evidence: dict[int, list[tuple[str, int, np.ndarray]]] = {}
     order = list(range(len(files)))
     random.Random(settings.seed).shuffle(order)
@@ -161,12 +168,17 @@ def build_tables(files: list[SourceFile], vocabulary: Vocabulary, inputs: np.nda
             if ids is None:
                 ids = token_ids(source, vocabulary)
             contexts = occurrence_contexts(ids, variable.occurrences, WINDOW, self_id, pad_id)
-            slots = np.arange(contexts.shape[1], dtype=np.int64)
+            slots = np.arange(contexts.shape[1], dtype=np.int64) if settings.positional_counts else \
+                np.zeros(contexts.shape[1], dtype=np.int64)
             keys = (slots[None, :] * vocabulary_size + contexts).ravel()
             key_parts.append(keys)
             row_parts.append(np.full(keys.size, row, dtype=np.int64))
             is_background = source.path in background
-            weight_parts.append(np.full(keys.size, settings.background_weight if is_background else 1.0))
+            file_weight = settings.background_weight if is_background else 1.0
+            weight_parts.append(np.full(keys.size, file_weight))
+            if settings.use_usage:
+                usage_counts[row] += file_weight * usage_flags(source.tokens, variable.occurrences)
+                usage_variables[row] += file_weight
             places = evidence.setdefault(row, [])
             if not is_background and len(places) < EVIDENCE_PER_NAME and all(p[0] != source.path for p in places):
                 line = source.tokens[variable.occurrences[0]].line
@@ -212,6 +224,8 @@ def build_tables(files: list[SourceFile], vocabulary: Vocabulary, inputs: np.nda
         evidence_vectors=np.array(vectors, dtype=np.float32).reshape(len(vectors), inputs.shape[1]),
         total_occurrences=max(total, 1.0),
         variables_per_language=dict(variables_per_language),
+        usage_counts=usage_counts.astype(np.float32), usage_variables=usage_variables.astype(np.float32),
+        positional=settings.positional_counts,
     )
 
 

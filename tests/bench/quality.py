@@ -88,6 +88,8 @@ ABLATIONS = {
     "no context counts in ranking": {"count_weight": 0.0},
     "no learned detector (raw gap)": {"use_detector": False},
     "no learned re-ranking": {"use_reranker": False},
+    "no usage patterns": {"use_usage": False},
+    "context counts as a bag (no word order)": {"positional_counts": False},
 }
 
 
@@ -95,6 +97,7 @@ def main() -> int:
     parser = argparse.ArgumentParser()
     parser.add_argument("--ablate", action="store_true", help="also run each lever switched off")
     parser.add_argument("--only", help="run only corpora whose label contains this text")
+    parser.add_argument("--variants", help="comma-separated ablation variants to run (default: all)")
     args = parser.parse_args()
     cache = TokenCache(CACHE / "tokens")
     results = {}
@@ -104,6 +107,9 @@ def main() -> int:
             continue
         corpus = load_corpus(discover(root, settings), cache)
         variants = dict(ABLATIONS) if args.ablate else {"full model": {}}
+        if args.variants:
+            wanted = {v.strip() for v in args.variants.split(",")}
+            variants = {k: v for k, v in variants.items() if k in wanted}
         is_small_python = corpus.lines < 30_000 and all(f.language == "python" for f in corpus.files)
         if args.ablate and is_small_python:
             variants["with the standard library as background"] = {"background": True}
