@@ -275,10 +275,10 @@ def rank_many(tables: NameTables, source: SourceFile, variables: list[Variable],
     top = logits.max(axis=1, keepdims=True)
     normalisers = (top + np.log(np.exp(logits - top).sum(axis=1, keepdims=True))).ravel()
     embedding_scores = logits - normalisers[:, None]
-    lexical_scores = np.zeros((len(variables), len(rows)), dtype=np.float64)
+    lexical_scores = np.zeros((len(variables), len(rows)), dtype=np.float32)
     contexts, identifiers, called = [], [], []
     postings = tables.subtoken_columns[source.language]
-    sizes = tables.subtoken_sizes[rows]
+    sizes = tables.subtoken_sizes[rows].astype(np.float32)
     for index, variable in enumerate(variables):
         subtokens, near, calls = lexical_context(source, variable)
         contexts.append(subtokens)
@@ -289,12 +289,14 @@ def rank_many(tables: NameTables, source: SourceFile, variables: list[Variable],
             if columns is not None and len(columns):
                 lexical_scores[index, columns] += 1.0
     lexical_scores /= sizes[None, :]
-    combined = weights.counts * count_scores + weights.embedding * embedding_scores + weights.lexical * lexical_scores
+    combined = count_scores * np.float32(weights.counts)
+    combined += embedding_scores * np.float32(weights.embedding)
+    combined += lexical_scores * np.float32(weights.lexical)
     profile = tables.usage_profiles.get(source.language)
     if profile is not None:
         flags = np.stack([usage_flags(source.tokens, v.occurrences, MAX_OCCURRENCES) for v in variables])
         usage_scores = profile_scores(flags, *profile)
-        combined += weights.usage * usage_scores
+        combined += usage_scores * np.float32(weights.usage)
     else:
         usage_scores = np.zeros_like(combined)
     return [Ranking(source.language, rows, count_scores[i], embedding_scores[i], lexical_scores[i], combined[i],
@@ -335,15 +337,18 @@ def _count_scores(tables: NameTables, language: str, rows: np.ndarray, ids: np.n
     slots = np.arange(contexts.shape[1], dtype=np.int64) if tables.positional else np.zeros(contexts.shape[1], np.int64)
     keys = (slots[None, :] * len(tables.vocabulary) + contexts).ravel()
     feature_owners = np.repeat(owners, contexts.shape[1])
-    scores = np.tile(tables.log_counts[rows] - 2 * WINDOW * tables.log_count_smoothed[rows], (variables, 1))
+    # Scores are float32 throughout: a file's variables times a language's candidates is a large
+    # matrix, and these sums need no more precision.
+    base = (tables.log_counts[rows] - 2 * WINDOW * tables.log_count_smoothed[rows]).astype(np.float32)
     if len(tables.feature_keys) == 0:
-        return scores
+        return np.tile(base, (variables, 1))
     found = np.clip(np.searchsorted(tables.feature_keys, keys), 0, len(tables.feature_keys) - 1)
     valid = tables.feature_keys[found] == keys
-    weights = 1.0 / counts[feature_owners[valid]]
+    weights = (1.0 / counts[feature_owners[valid]]).astype(np.float32)  # the evidence is float32: stay in it
     features = csr_matrix((weights, (feature_owners[valid], found[valid])),
                           shape=(variables, len(tables.feature_keys)))
-    scores += (features @ tables.context_evidence[language]).toarray()
+    scores = (features @ tables.context_evidence[language]).toarray()
+    scores += base
     return scores
 
 

@@ -45,7 +45,9 @@ class TrainSettings:
     lexical_weight: float = 3.0
     count_weight: float = 1.0
     usage_weight: float = 1.0
-    use_usage: bool = True  # learn each name's usage profile (iterated, called, compared with None, ...)
+    # Each name's usage profile (iterated, called, compared with None, ...): measured, and off,
+    # since the position-specific counts already see these patterns (DEVELOPERS.md, "Quality").
+    use_usage: bool = False
     positional_counts: bool = True  # count each neighbour at its offset; False pools them (a bag)
     use_detector: bool = True
     use_reranker: bool = True
@@ -55,6 +57,9 @@ class TrainSettings:
     def weights(self) -> Weights:
         return Weights(embedding=self.embedding_weight, lexical=self.lexical_weight, counts=self.count_weight,
                        usage=self.usage_weight)
+
+
+_DEFINING = frozenset({".", "def", "function", "func", "fn"})  # before a name that is called or defined
 
 
 def split_files(paths: list[str], share: float, seed: int) -> tuple[set[str], set[str]]:
@@ -128,22 +133,25 @@ def build_tables(files: list[SourceFile], vocabulary: Vocabulary, inputs: np.nda
                 counter[variable.name] += weight * min(len(variable.occurrences), 24)
     # With a background corpus, candidates are names the team itself writes somewhere: the
     # background lends its contexts, never its own vocabulary of names.
-    team_words: set[str] | None = None
+    team_words: dict[str, set[str]] | None = None
     if background:
-        team_words = set()
+        team_words = {}
         for source in files:
             if source.path not in background:
                 tokens = source.tokens
-                # Method names (`.get(`, `.items(`) are verbs of other objects, not names for a variable.
-                team_words.update(t.text for i, t in enumerate(tokens) if t.kind == "name" and not (
-                    0 < i < len(tokens) - 1 and tokens[i - 1].text == "." and tokens[i + 1].text == "("))
+                # Method names (`.get(`, `.items(`, `def get(`) are verbs of other objects, not names
+                # for a variable.
+                team_words.setdefault(source.language, set()).update(
+                    t.text for i, t in enumerate(tokens) if t.kind == "name" and not (
+                        0 < i < len(tokens) - 1 and tokens[i + 1].text == "(" and tokens[i - 1].text in _DEFINING))
     names, languages, counts = [], [], []
     styles = {}
     for language in sorted(per_language):
         counter = per_language[language]
         styles[language] = dominant_style(counter)
+        written = team_words.get(language, set()) if team_words is not None else None
         ranked = sorted(((name, count) for name, count in counter.items()
-                         if team_words is None or name in team_words), key=lambda item: (-item[1], item[0]))
+                         if written is None or name in written), key=lambda item: (-item[1], item[0]))
         for name, count in ranked[:settings.names_per_language]:
             names.append(name)
             languages.append(language)

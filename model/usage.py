@@ -55,7 +55,8 @@ def usage_flags(tokens: list[Token], occurrences: list[int], limit: int = 24) ->
             flags[7] = 1.0
         if after in ("=", ":=") and before not in (".", "("):
             value = i + 2
-            if 0 <= value <= last and tokens[value].kind in (STRING, NUMBER) and text(value + 1) in ("", ")", ",", ";"):
+            if 0 <= value <= last and tokens[value].kind in (STRING, NUMBER) and (
+                    text(value + 1) in ("", ";") or tokens[min(value + 1, last)].line != tokens[value].line):
                 flags[9] = 1.0
             for j in range(value, min(value + 6, last)):
                 if tokens[j].line != tokens[i].line:

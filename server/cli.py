@@ -11,7 +11,7 @@ from pathlib import Path
 
 from cognomen.model import bundle
 from cognomen.model.bundle import ModelError
-from cognomen.model.corpus import SkipFile, read_source, repository_root
+from cognomen.model.corpus import SkipFile, discover, read_source, repository_root
 from cognomen.model.findings import Finding, analyse_text, check_source, suggest_at, suggestion_json
 from cognomen.model.persistence import load_scorer
 from cognomen.model.pipeline import GatePolicy, NothingToLearn, train_repository
@@ -150,9 +150,8 @@ def command_check(args) -> int:
     scorer, _ = load_or_explain(store_for(args))
     findings: list[Finding] = []
     notes: list[str] = []
-    for path in args.files:
-        if not Path(path).is_file():
-            raise UsageError(f"{path}: no such file")
+    paths = source_paths(args.files)
+    for path in paths:
         source = analyse_text(read_document(path), path)
         if source is None:
             notes.append(f"{path}: not a supported language; skipped")
@@ -166,8 +165,23 @@ def command_check(args) -> int:
         for finding in findings:
             print(finding_text(finding))
         print(f"{len(findings)} oddly named variable{'s' if len(findings) != 1 else ''} in "
-              f"{len(args.files)} file{'s' if len(args.files) != 1 else ''}")
+              f"{len(paths)} file{'s' if len(paths) != 1 else ''}")
     return OK
+
+
+def source_paths(arguments: list[str]) -> list[str]:
+    """Files as given, and for a folder the source files under it (as `train` would pick them)."""
+    paths = []
+    for argument in arguments:
+        given = Path(argument)
+        if given.is_dir():
+            selection = discover(given)
+            paths.extend(str(given / relative) for relative in selection.files)
+        elif given.is_file():
+            paths.append(argument)
+        else:
+            raise UsageError(f"{argument}: no such file or folder")
+    return paths
 
 
 def parse_position(text: str) -> tuple[str, int, int]:
@@ -283,7 +297,7 @@ def build_parser() -> argparse.ArgumentParser:
     train.set_defaults(handler=command_train)
 
     check = commands.add_parser("check", help="flag oddly named variables in whole files")
-    check.add_argument("files", nargs="+", metavar="FILE")
+    check.add_argument("files", nargs="+", metavar="PATH", help="files, or folders to check every source file in")
     check.add_argument("--format", choices=("text", "json"), default="text")
     check.add_argument("--threshold", type=float, help="flag above this oddness instead of the calibrated one")
     check.set_defaults(handler=command_check)

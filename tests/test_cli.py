@@ -25,6 +25,19 @@ def test_check_text_reads_like_a_compiler_message(demo_copy):
         in result.stdout
 
 
+def test_check_a_folder_checks_every_source_file_under_it(demo_copy):
+    one = run_cli("check", "fernhill/alerts.py", cwd=demo_copy)
+    folder = run_cli("check", "fernhill", cwd=demo_copy)
+    assert folder.returncode == 0, folder.stderr
+    python_files = sorted(str(p.relative_to(demo_copy)) for p in (demo_copy / "fernhill").rglob("*.py"))
+    assert f"in {len(python_files)} files" in folder.stdout.splitlines()[-1]
+    # What a file shows on its own, it shows within its folder.
+    flagged = [line for line in one.stdout.splitlines() if line.startswith("fernhill/alerts.py:")]
+    assert flagged and all(line in folder.stdout for line in flagged)
+    missing = run_cli("check", "no/such/folder", cwd=demo_copy)
+    assert missing.returncode == 2 and "no such file or folder" in missing.stderr
+
+
 def test_suggest_many_positions(demo_copy):
     result = run_cli("suggest", "--format", "json", "fernhill/alerts.py:27:10", "fernhill/alerts.py:1:1",
                      cwd=demo_copy)
