@@ -214,6 +214,11 @@ def analyse(text: str, path: str, language: str, digest: str = "", pieces: Piece
     statement at a time (the same result, see `chunks`), reusing the pieces an editor's
     earlier readings left, and confining a syntax error to the statement that holds it.
     """
+    with _no_collection():
+        return _analyse(text, path, language, digest, pieces)
+
+
+def _analyse(text: str, path: str, language: str, digest: str, pieces: PieceCache | None) -> SourceFile:
     tokens = variables = None
     if language != "python":
         tokens = lex(text, language)

@@ -298,10 +298,10 @@ def rank_many(tables: NameTables, source: SourceFile, variables: list[Variable],
         usage_scores = profile_scores(flags, *profile)
         combined += usage_scores * np.float32(weights.usage)
     else:
-        usage_scores = np.zeros_like(combined)
+        usage_scores = None
     return [Ranking(source.language, rows, count_scores[i], embedding_scores[i], lexical_scores[i], combined[i],
                     vectors[i], contexts[i], int(counts[i]), unseen_count, float(normalisers[i]),
-                    identifiers[i], called[i], usage_scores[i])
+                    identifiers[i], called[i], None if usage_scores is None else usage_scores[i])
             for i in range(len(variables))]
 
 

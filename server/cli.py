@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import argparse
+import gc
 import json
 import os
 import sys
@@ -16,6 +17,8 @@ from cognomen.model.findings import Finding, analyse_text, check_source, suggest
 from cognomen.model.persistence import load_scorer
 from cognomen.model.pipeline import GatePolicy, NothingToLearn, train_repository
 from cognomen.model.training import TrainSettings
+
+from .memory import keep_freed_memory
 
 OK, FLAGGED, USAGE, GATE_REFUSED, INTERRUPTED = 0, 1, 2, 3, 130
 
@@ -121,9 +124,11 @@ def command_train(args) -> int:
 
 def load_or_explain(store: Path):
     try:
-        return load_scorer(store)
+        loaded = load_scorer(store)
     except ModelError as error:
         raise UsageError(str(error)) from None
+    gc.freeze()  # the model lives until the command ends: keep it out of garbage collections
+    return loaded
 
 
 def finding_text(finding: Finding) -> str:
@@ -327,6 +332,7 @@ def main(argv: list[str] | None = None) -> int:
     if not getattr(args, "handler", None):
         parser.print_help(sys.stderr)
         return USAGE
+    keep_freed_memory()
     try:
         return args.handler(args)
     except UsageError as error:
