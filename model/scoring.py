@@ -119,6 +119,7 @@ class NameTables:
         for name in ("name_counts", "name_vocab_rows", "evidence_rows", "evidence_path_ids", "evidence_lines",
                      "feature_keys", "feature_totals"):
             setattr(self, name, np.array(getattr(self, name)))
+        self.bound_masks: dict[tuple[str, frozenset[str]], np.ndarray] = {}  # see allowed_mask
         self.evidence_start = np.searchsorted(self.evidence_rows, np.arange(len(self.names) + 1))
         self.log_counts = np.log(self.name_counts.astype(np.float64) + 1.0)
         self.log_count_smoothed = np.log(self.name_counts.astype(np.float64) + SMOOTHING)
@@ -375,12 +376,24 @@ def _logsumexp(values: np.ndarray) -> float:
 
 def allowed_mask(tables: NameTables, ranking: Ranking, bound_names: frozenset[str], current: str) -> np.ndarray:
     """Candidates that may replace the current name: not bound nearby, not reserved, in the team's style."""
-    allowed = tables.static_allowed.copy()
-    for name in bound_names | {current}:
-        row = tables.row_by_name.get((ranking.language, name))
-        if row is not None:
-            allowed[row] = False
-    return allowed[ranking.rows]
+    # Variables of one scope share their bound names: work out their mask once.
+    key = (ranking.language, bound_names)
+    shared = tables.bound_masks.get(key)
+    if shared is None:
+        mask = tables.static_allowed.copy()
+        for name in bound_names:
+            row = tables.row_by_name.get((ranking.language, name))
+            if row is not None:
+                mask[row] = False
+        shared = mask[ranking.rows]
+        if len(tables.bound_masks) > 256:
+            tables.bound_masks.clear()
+        tables.bound_masks[key] = shared
+    allowed = shared.copy()
+    row = tables.row_by_name.get((ranking.language, current))
+    if row is not None:
+        allowed[int(np.searchsorted(ranking.rows, row))] = False
+    return allowed
 
 
 @dataclass
