@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import ast
+import bisect
 import builtins
 import keyword
 import symtable
@@ -382,6 +383,12 @@ def _token_variables(tokens: list[Token], language: str) -> list[Variable]:
     for index, block_id, _ in declarations:
         declared_in.setdefault((block_id, tokens[index].text), index)
 
+    # Where each name occurs, so a variable's uses are found without scanning its whole block.
+    places: dict[str, list[int]] = {}
+    for j, t in enumerate(tokens):
+        if t.kind == NAME:
+            places.setdefault(t.text, []).append(j)
+    bound_in: dict[int, frozenset[str]] = {}
     variables: list[Variable] = []
     seen: set[tuple[int, str]] = set()
     for index, block_id, kind in sorted(declarations):
@@ -392,9 +399,9 @@ def _token_variables(tokens: list[Token], language: str) -> list[Variable]:
         block = blocks[block_id]
         occurrences = [index]
         shadowed_until = -1
-        for j in range(index + 1, block.end):
-            t = tokens[j]
-            if t.kind != NAME or t.text != name or j <= shadowed_until:
+        named = places.get(name, [])
+        for j in named[bisect.bisect_right(named, index):bisect.bisect_left(named, block.end)]:
+            if j <= shadowed_until:
                 continue
             inner = block_of[j]
             if inner != block_id and declared_in.get((inner, name), 10**12) <= j:
@@ -407,8 +414,11 @@ def _token_variables(tokens: list[Token], language: str) -> list[Variable]:
                 continue
             occurrences.append(j)
         function_start = _function_block(blocks, block_id)
-        bound = frozenset(tokens[j].text for j in range(blocks[function_start].start, blocks[function_start].end)
-                          if tokens[j].kind == NAME and not (j and tokens[j - 1].text == "."))
+        bound = bound_in.get(function_start)
+        if bound is None:
+            bound = bound_in[function_start] = frozenset(
+                tokens[j].text for j in range(blocks[function_start].start, blocks[function_start].end)
+                if tokens[j].kind == NAME and not (j and tokens[j - 1].text == "."))
         variables.append(Variable(
             name=name,
             kind=kind,
