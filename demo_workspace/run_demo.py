@@ -43,7 +43,8 @@ def main() -> int:
         print("Training on the Fernhill repository (a small team, so the standard library of this Python lends "
               "general naming context at a lower weight) ...")
         started = time.monotonic()
-        show("cognomen train --background stdlib", run("train", "--quiet", "--background", "stdlib", cwd=repo))
+        show("cognomen train --reproducible --background stdlib",
+             run("train", "--quiet", "--reproducible", "--background", "stdlib", cwd=repo))
         print(f"(took {time.monotonic() - started:.1f} s)")
 
         show("cognomen check fernhill/*.py  (odd names already in the repository)",

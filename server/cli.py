@@ -80,6 +80,8 @@ def command_train(args) -> int:
     store = store_for(args, path)
     settings = TrainSettings(vocabulary_size=args.vocabulary_size, min_count=args.min_count,
                              epochs=args.epochs, flag_budget=args.flag_budget, seed=args.seed)
+    if args.reproducible:
+        settings.workers = 1
     policy = GatePolicy(tolerance=args.tolerance, force=args.force)
     try:
         result = train_repository(path.resolve(), store, settings, policy, keep=args.keep,
@@ -299,6 +301,9 @@ def build_parser() -> argparse.ArgumentParser:
                        help="more code to learn general naming from, at a lower weight; 'stdlib' means the "
                             "standard library of this Python (useful for small repositories; repeatable)")
     train.add_argument("--quiet", action="store_true", help="no progress on stderr")
+    train.add_argument("--reproducible", action="store_true",
+                       help="train the embeddings on one thread: the same code gives the same model, bit for bit "
+                            "(about twice gensim's time; several threads finish in a different order each run)")
     train.set_defaults(handler=command_train)
 
     check = commands.add_parser("check", help="flag oddly named variables in whole files")

@@ -97,3 +97,14 @@ def test_kill_at_any_moment_leaves_a_loadable_current_model(repo):
     for model in complete:
         bundle.load_model(model)  # every visible model is whole
     assert len(leftovers) <= 8
+
+
+def test_reproducible_training_gives_the_same_model_bit_for_bit(repo, tmp_path):
+    stores = [tmp_path / "first", tmp_path / "second"]
+    for store in stores:
+        run_cli("--model-dir", str(store), "train", "--quiet", "--reproducible", str(repo), check=True)
+    first, second = (store / "models" / bundle.current_model_id(store) for store in stores)
+    for name in ("input_vectors.npy", "output_vectors.npy", "detector.json", "context_counts.npy"):
+        assert (first / name).read_bytes() == (second / name).read_bytes(), name
+    manifests = [json.loads((d / "manifest.json").read_text()) for d in (first, second)]
+    assert manifests[0]["threshold"] == manifests[1]["threshold"]
