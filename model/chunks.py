@@ -16,8 +16,8 @@ import threading
 from collections import OrderedDict
 from dataclasses import dataclass
 
-from .scopes import Variable, python_scopes, _python_token_variables
-from .tokens import NAME, Token, _lex_pygments, _lex_python
+from .scopes import Variable, python_scopes, python_token_variables
+from .tokens import NAME, Token, lex_python, lex_with_pygments
 
 # `from __future__ import annotations` changes what a piece's annotations bind; other features do not.
 _FUTURE_ANNOTATIONS = re.compile(r"^from[ \t]+__future__[ \t]+import[^\n#]*\bannotations\b", re.MULTILINE)
@@ -133,13 +133,13 @@ def _piece(text: str, future: str, cache: PieceCache | None) -> Piece | None:
         found = cache.get(key)
         if found is not False:
             return found
-    tokens = _lex_python(text, False, False)
+    tokens = lex_python(text, False, False)
     piece = None
     if tokens is not None:
         try:
             found_variables, module_names = python_scopes(text, tokens, future)
         except (SyntaxError, ValueError, RecursionError, MemoryError):
-            found_variables = _python_token_variables(tokens)
+            found_variables = python_token_variables(tokens)
             # Names bound here are unknown; keep every name of the piece off the suggestion lists.
             module_names = frozenset(t.text for t in tokens if t.kind == NAME)
         found_variables = [v for v in found_variables if v.occurrences]
@@ -152,8 +152,8 @@ def _piece(text: str, future: str, cache: PieceCache | None) -> Piece | None:
 
 def _fallback_piece(text: str) -> Piece:
     """The rest of a file that the standard tokenizer cannot read (an unclosed string): pygments."""
-    tokens = _lex_pygments(text, "python", False, False)
-    found_variables = [v for v in _python_token_variables(tokens) if v.occurrences]
+    tokens = lex_with_pygments(text, "python", False, False)
+    found_variables = [v for v in python_token_variables(tokens) if v.occurrences]
     found_variables.sort(key=lambda v: v.occurrences[0])
     return Piece(tokens, found_variables, frozenset(t.text for t in tokens if t.kind == NAME),
                  text.count("\n") + 1)

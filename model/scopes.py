@@ -343,7 +343,7 @@ class _Block:
 
 def _token_variables(tokens: list[Token], language: str) -> list[Variable]:
     if language == "python":
-        return _python_token_variables(tokens)
+        return python_token_variables(tokens)
     blocks, block_of = _blocks(tokens)
     declarations: list[tuple[int, int, str]] = []  # (token index, block id, kind)
     declaration_words = _DECLARATION_WORDS.get(language, set())
@@ -565,7 +565,7 @@ def _parameters_before(tokens: list[Token], brace: int, language: str) -> list[i
     return found
 
 
-def _python_token_variables(tokens: list[Token]) -> list[Variable]:
+def python_token_variables(tokens: list[Token]) -> list[Variable]:
     """Fallback for Python with syntax errors: assignments and parameters by indentation-free rules."""
     variables: dict[tuple[int, str], Variable] = {}
     function_start = -1

@@ -107,13 +107,13 @@ def lex(text: str, language: str, keep_comments: bool = False, raw: bool = False
     pygments, same tokens), falling back to pygments where tokenize gives up.
     """
     if language == "python":
-        fast = _lex_python(text, keep_comments, raw)
+        fast = lex_python(text, keep_comments, raw)
         if fast is not None:
             return fast
-    return _lex_pygments(text, language, keep_comments, raw)
+    return lex_with_pygments(text, language, keep_comments, raw)
 
 
-def _lex_pygments(text: str, language: str, keep_comments: bool, raw: bool) -> list[Token]:
+def lex_with_pygments(text: str, language: str, keep_comments: bool, raw: bool) -> list[Token]:
     tokens: list[Token] = []
     line, column = 1, 1
     previous_kind = None
@@ -183,7 +183,7 @@ _STRING_PARTS = {tokenize.STRING} | {getattr(tokenize, name) for name in ("FSTRI
                                                                          "FSTRING_END") if hasattr(tokenize, name)}
 
 
-def _lex_python(text: str, keep_comments: bool, raw: bool) -> list[Token] | None:
+def lex_python(text: str, keep_comments: bool, raw: bool) -> list[Token] | None:
     """Python tokens; None when the text ends inside a string or brackets or tokenize cannot read it."""
     fast = _scan_python(text, keep_comments, raw)
     if fast is not _UNUSUAL:
@@ -266,7 +266,7 @@ def _scan_python(text: str, keep_comments: bool, raw: bool):
             prefix = value[:quote]
             if "f" in prefix.lower():
                 # An f-string: its fields hold names (and code) that count as uses.
-                for inner in _lex_pygments(value, "python", False, raw):
+                for inner in lex_with_pygments(value, "python", False, raw):
                     inner_line = line + inner.line - 1
                     inner_column = column + inner.column - 1 if inner.line == 1 else inner.column
                     if inner.kind == STRING:
@@ -348,7 +348,7 @@ def _tokenize_python(text: str, keep_comments: bool, raw: bool) -> list[Token] |
                 previous_kind = COMMENT
             elif kind_code == tokenize.STRING and "f" in value[: value.find(value[-1])].lower():
                 # An f-string: its fields hold names (and code) that count as uses.
-                for inner in _lex_pygments(value, "python", False, raw):
+                for inner in lex_with_pygments(value, "python", False, raw):
                     inner_line = line + inner.line - 1
                     inner_column = column + inner.column - 1 if inner.line == 1 else inner.column
                     if inner.kind == STRING:

@@ -101,5 +101,5 @@ def test_the_fast_python_scanner_yields_what_tokenize_yields_on_the_standard_lib
 
 @pytest.mark.parametrize("text", ["x = (1,\n", "x = 1 + \\\n", 'x = """open\n', "values = [\n    1,\n"])
 def test_python_ending_inside_brackets_or_strings_does_not_lex(text):
-    from cognomen.model.tokens import _lex_python
-    assert _lex_python(text, False, False) is None
+    from cognomen.model.tokens import lex_python
+    assert lex_python(text, False, False) is None
