@@ -34,7 +34,6 @@ class Piece:
     tokens: list[Token]
     variables: list[Variable]  # bound names leave out the module's names
     module_names: frozenset[str]
-    line_count: int
     placed: tuple[int, list[Token]] | None = None  # a line offset and the tokens moved there, last used
 
 
@@ -144,7 +143,7 @@ def _piece(text: str, future: str, cache: PieceCache | None) -> Piece | None:
             module_names = frozenset(t.text for t in tokens if t.kind == NAME)
         found_variables = [v for v in found_variables if v.occurrences]
         found_variables.sort(key=lambda v: v.occurrences[0])
-        piece = Piece(tokens, found_variables, module_names, text.count("\n") + 1)
+        piece = Piece(tokens, found_variables, module_names)
     if cache is not None:
         cache.put(key, piece)
     return piece
@@ -155,8 +154,7 @@ def _fallback_piece(text: str) -> Piece:
     tokens = lex_with_pygments(text, "python", False, False)
     found_variables = [v for v in python_token_variables(tokens) if v.occurrences]
     found_variables.sort(key=lambda v: v.occurrences[0])
-    return Piece(tokens, found_variables, frozenset(t.text for t in tokens if t.kind == NAME),
-                 text.count("\n") + 1)
+    return Piece(tokens, found_variables, frozenset(t.text for t in tokens if t.kind == NAME))
 
 
 def _append(piece: Piece, line_offset: int, tokens: list[Token], variables: list[Variable]) -> None:
