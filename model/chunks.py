@@ -105,9 +105,13 @@ def read_python(text: str, cache: PieceCache | None = None) -> tuple[list[Token]
     while first < len(starts) - 1:
         last = first + 1
         piece = _piece("".join(lines[starts[first]:starts[last]]), future, cache)
-        # A piece that does not lex ends inside a string or brackets: read on into the next one.
+        # A piece that does not lex ends inside a string or brackets: read on into the next
+        # ones, twice as many each time, so a string left open while typing costs about two
+        # readings of the rest of the file rather than one per statement after it.
+        step = 1
         while piece is None and last < len(starts) - 1:
-            last += 1
+            last = min(last + step, len(starts) - 1)
+            step *= 2
             piece = _piece("".join(lines[starts[first]:starts[last]]), future, cache)
         if piece is None:
             piece = _fallback_piece("".join(lines[starts[first]:starts[last]]))
