@@ -337,7 +337,10 @@ def main(argv: list[str] | None = None) -> int:
     if not getattr(args, "handler", None):
         parser.print_help(sys.stderr)
         return USAGE
-    keep_freed_memory()
+    if args.command != "serve":
+        # One-shot commands score whole files from scratch and gain most from reusing freed
+        # memory. The server re-scores only what an edit touched, so it keeps its memory low.
+        keep_freed_memory()
     try:
         return args.handler(args)
     except UsageError as error:

@@ -198,7 +198,7 @@ def main() -> int:
 
         from cognomen.model.persistence import load_scorer
         from cognomen.server.memory import keep_freed_memory
-        keep_freed_memory()  # as the command line and the server do when they start
+        keep_freed_memory()  # as the one-shot commands (check, review) do when they start
         scorer, _ = load_scorer(store)
         gc.collect()
         gc.freeze()  # as the server does after loading a model
