@@ -16,7 +16,7 @@ import threading
 from collections import OrderedDict
 from dataclasses import dataclass
 
-from .scopes import Variable, python_scopes, python_token_variables
+from .scopes import Variable, add_module_names, python_scopes, python_token_variables
 from .tokens import NAME, Token, lex_python, lex_with_pygments
 
 # `from __future__ import annotations` changes what a piece's annotations bind; other features do not.
@@ -118,13 +118,7 @@ def read_python(text: str, cache: PieceCache | None = None) -> tuple[list[Token]
         _append(piece, starts[first], tokens, variables)
         module_names.update(piece.module_names)
         first = last
-    module = frozenset(module_names)
-    widened: dict[frozenset[str], frozenset[str]] = {}
-    for variable in variables:
-        local = variable.bound_names
-        if local not in widened:
-            widened[local] = local | module
-        variable.bound_names = widened[local]
+    add_module_names(variables, frozenset(module_names))
     return tokens, variables
 
 

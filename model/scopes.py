@@ -85,13 +85,18 @@ class _Scope:
 def python_variables(text: str, tokens: list[Token]) -> list[Variable]:
     """Function-local variables of a whole Python file; raises SyntaxError when it does not compile."""
     variables, module_names = python_scopes(text, tokens)
-    with_module: dict[frozenset[str], frozenset[str]] = {}
+    add_module_names(variables, module_names)
+    return variables
+
+
+def add_module_names(variables: list[Variable], module_names: frozenset[str]) -> None:
+    """Widen each variable's bound names by the module's (one set per scope, shared)."""
+    widened: dict[frozenset[str], frozenset[str]] = {}
     for variable in variables:
         local = variable.bound_names
-        if local not in with_module:
-            with_module[local] = local | module_names
-        variable.bound_names = with_module[local]
-    return variables
+        if local not in widened:
+            widened[local] = local | module_names
+        variable.bound_names = widened[local]
 
 
 def python_scopes(text: str, tokens: list[Token], future: str = "") -> tuple[list[Variable], frozenset[str]]:

@@ -261,29 +261,8 @@ def _scan_python(text: str, keep_comments: bool, raw: bool):
         elif group == "string":
             start = match.start(group)
             value = match.group(group)
-            column = start - line_start + 1
-            quote = value.find(value[-1])
-            prefix = value[:quote]
-            if "f" in prefix.lower():
-                # An f-string: its fields hold names (and code) that count as uses.
-                for inner in lex_with_pygments(value, "python", False, raw):
-                    inner_line = line + inner.line - 1
-                    inner_column = column + inner.column - 1 if inner.line == 1 else inner.column
-                    if inner.kind == STRING:
-                        previous_kind = _add_string(tokens, previous_kind, inner.text, inner_line, inner_column, raw)
-                    else:
-                        append(Token(inner.text, inner.kind, inner_line, inner_column))
-                        previous_kind = inner.kind
-            elif _is_docstring(value, text[line_start:start], start - line_start):
-                # pygments reads a triple-quoted string that starts a line as documentation,
-                # and its prefix letters (r, b, u) as a string of their own.
-                if prefix:
-                    previous_kind = _add_string(tokens, previous_kind, prefix, line, column, raw)
-                if keep_comments or raw:
-                    append(Token(value if raw else "<comment>", COMMENT, line, column))
-                previous_kind = COMMENT
-            else:
-                previous_kind = _add_string(tokens, previous_kind, value, line, column, raw)
+            previous_kind = _add_python_string(tokens, previous_kind, value, line, start - line_start + 1,
+                                               text[line_start:start], keep_comments, raw)
             newlines = value.count("\n")
             if newlines:
                 line += newlines
@@ -315,6 +294,33 @@ def _scan_python(text: str, keep_comments: bool, raw: bool):
     return tokens
 
 
+def _add_python_string(tokens: list[Token], previous_kind: str | None, value: str, line: int, column: int,
+                       before: str, keep_comments: bool, raw: bool) -> str | None:
+    """A whole Python string literal as pygments reads it; `before` is its line's text before it.
+    Returns the kind of the last token added."""
+    if _is_docstring(value, before, len(before)):
+        # pygments reads a triple-quoted string that starts a line as documentation,
+        # and its prefix letters (r, b, u) as a string of their own.
+        prefix = value[: len(value) - len(value.lstrip("rRuUbB"))]
+        if prefix:
+            _add_string(tokens, previous_kind, prefix, line, column, raw)
+        if keep_comments or raw:
+            tokens.append(Token(value if raw else "<comment>", COMMENT, line, column))
+        return COMMENT
+    if "f" in value[: value.find(value[-1])].lower():
+        # An f-string: its fields hold names (and code) that count as uses.
+        for inner in lex_with_pygments(value, "python", False, raw):
+            inner_line = line + inner.line - 1
+            inner_column = column + inner.column - 1 if inner.line == 1 else inner.column
+            if inner.kind == STRING:
+                previous_kind = _add_string(tokens, previous_kind, inner.text, inner_line, inner_column, raw)
+            else:
+                tokens.append(Token(inner.text, inner.kind, inner_line, inner_column))
+                previous_kind = inner.kind
+        return previous_kind
+    return _add_string(tokens, previous_kind, value, line, column, raw)
+
+
 def _tokenize_python(text: str, keep_comments: bool, raw: bool) -> list[Token] | None:
     """Python through tokenize; None when tokenize cannot read the text (then pygments does)."""
     try:
@@ -323,11 +329,6 @@ def _tokenize_python(text: str, keep_comments: bool, raw: bool) -> list[Token] |
         return None
     tokens: list[Token] = []
     previous_kind = None
-
-    def add_string(value: str, line: int, column: int) -> None:
-        nonlocal previous_kind
-        previous_kind = _add_string(tokens, previous_kind, value, line, column, raw)
-
     for kind_code, value, (line, offset), _, line_text in stream:
         column = offset + 1
         if kind_code in _SKIPPED:
@@ -336,28 +337,11 @@ def _tokenize_python(text: str, keep_comments: bool, raw: bool) -> list[Token] |
             if keep_comments or raw:
                 tokens.append(Token(value.strip() if raw else "<comment>", COMMENT, line, column))
             previous_kind = COMMENT
-        elif kind_code in _STRING_PARTS:
-            if kind_code == tokenize.STRING and _is_docstring(value, line_text, offset):
-                # pygments reads a triple-quoted string that starts a line as documentation,
-                # and its prefix letters (r, b, u) as a string of their own.
-                prefix = value[: len(value) - len(value.lstrip("rRuUbB"))]
-                if prefix:
-                    add_string(prefix, line, column)
-                if keep_comments or raw:
-                    tokens.append(Token(value if raw else "<comment>", COMMENT, line, column))
-                previous_kind = COMMENT
-            elif kind_code == tokenize.STRING and "f" in value[: value.find(value[-1])].lower():
-                # An f-string: its fields hold names (and code) that count as uses.
-                for inner in lex_with_pygments(value, "python", False, raw):
-                    inner_line = line + inner.line - 1
-                    inner_column = column + inner.column - 1 if inner.line == 1 else inner.column
-                    if inner.kind == STRING:
-                        add_string(inner.text, inner_line, inner_column)
-                    else:
-                        tokens.append(Token(inner.text, inner.kind, inner_line, inner_column))
-                        previous_kind = inner.kind
-            else:
-                add_string(value, line, column)
+        elif kind_code == tokenize.STRING:
+            previous_kind = _add_python_string(tokens, previous_kind, value, line, column, line_text[:offset],
+                                               keep_comments, raw)
+        elif kind_code in _STRING_PARTS:  # the pieces of an f-string, from Python 3.12 on
+            previous_kind = _add_string(tokens, previous_kind, value, line, column, raw)
         elif kind_code == tokenize.NUMBER:
             tokens.append(Token(value if raw else NUMBER_TOKEN, NUMBER, line, column))
             previous_kind = NUMBER

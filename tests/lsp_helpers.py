@@ -70,3 +70,10 @@ async def diagnostics_for(client, uri: str, version: int | None = None, after: i
 def published(client, uri: str) -> int:
     """How many times diagnostics were published for a document so far."""
     return client.publish_counts.get(uri, 0)
+
+
+async def code_actions_at(client, uri: str, position: types.Position):
+    """The code actions offered with the cursor at a position and no diagnostics passed."""
+    return await client.text_document_code_action_async(types.CodeActionParams(
+        text_document=types.TextDocumentIdentifier(uri=uri), range=types.Range(start=position, end=position),
+        context=types.CodeActionContext(diagnostics=[])))

@@ -8,7 +8,7 @@ from lsprotocol import types
 from pygls.exceptions import JsonRpcException
 
 from .conftest import run_cli
-from .lsp_helpers import diagnostics_for, lsp_client, open_document, published
+from .lsp_helpers import code_actions_at, diagnostics_for, lsp_client, open_document, published
 
 pytestmark = pytest.mark.asyncio(loop_scope="function")
 
@@ -76,22 +76,16 @@ async def test_refactor_for_any_variable_and_public_parameters(workspace):
         uri = open_document(client, path)
         await diagnostics_for(client, uri)
         local = position_of(text, "total = 0.0")
-        actions = await client.text_document_code_action_async(types.CodeActionParams(
-            text_document=types.TextDocumentIdentifier(uri=uri), range=types.Range(start=local, end=local),
-            context=types.CodeActionContext(diagnostics=[])))
+        actions = await code_actions_at(client, uri, local)
         assert actions and all(a.kind == types.CodeActionKind.RefactorRewrite for a in actions)
         assert all("total" not in a.title.split("to")[-1] for a in actions)
         parameter = position_of(text, "readings: list[Reading], zone_id")
-        none = await client.text_document_code_action_async(types.CodeActionParams(
-            text_document=types.TextDocumentIdentifier(uri=uri), range=types.Range(start=parameter, end=parameter),
-            context=types.CodeActionContext(diagnostics=[])))
+        none = await code_actions_at(client, uri, parameter)
         assert not none, "a public function's parameter is not renamed by default"
     async with lsp_client(workspace, options={"allowPublicParameterRenames": True}) as client:
         uri = open_document(client, path)
         await diagnostics_for(client, uri)
-        actions = await client.text_document_code_action_async(types.CodeActionParams(
-            text_document=types.TextDocumentIdentifier(uri=uri), range=types.Range(start=parameter, end=parameter),
-            context=types.CodeActionContext(diagnostics=[])))
+        actions = await code_actions_at(client, uri, parameter)
         assert actions and all("callers passing it by keyword will break" in a.title for a in actions)
 
 

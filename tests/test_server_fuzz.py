@@ -12,7 +12,7 @@ from pygls.exceptions import JsonRpcException
 from cognomen.model.findings import analyse_text, check_source
 from cognomen.model.persistence import load_scorer
 
-from .lsp_helpers import diagnostics_for, lsp_client, open_document
+from .lsp_helpers import code_actions_at, diagnostics_for, lsp_client, open_document
 
 SNIPPETS = ["x", "zone", " = ", "(", ")", ":", "\n", "\n    ", "reading.moisture", "for valve in zones:\n        ",
             "'é'", "\"🌱\"", "def f(a, b):\n    return a\n", "#", "[", "]", "banana = 3\n", "    ", "valve", "import os\n"]
@@ -85,9 +85,7 @@ async def exercise(workspace, operations):
                         await client.text_document_hover_async(types.HoverParams(text_document=document,
                                                                                  position=position))
                     elif kind == "action":
-                        await client.text_document_code_action_async(types.CodeActionParams(
-                            text_document=document, range=types.Range(start=position, end=position),
-                            context=types.CodeActionContext(diagnostics=[])))
+                        await code_actions_at(client, uri, position)
                     else:
                         await client.text_document_completion_async(types.CompletionParams(
                             text_document=document, position=position))
