@@ -16,8 +16,10 @@ import threading
 from collections import OrderedDict
 from dataclasses import dataclass
 
-from .scopes import Variable, add_module_names, python_scopes, python_token_variables
-from .tokens import NAME, Token, lex_python, lex_with_pygments
+from .languages.python import lex_python
+from .languages.python_scopes import add_module_names, python_scopes, python_token_variables
+from .scopes import Variable
+from .tokens import NAME, Token, lex_with_pygments
 
 # `from __future__ import annotations` changes what a piece's annotations bind; other features do not.
 _FUTURE_ANNOTATIONS = re.compile(r"^from[ \t]+__future__[ \t]+import[^\n#]*\bannotations\b", re.MULTILINE)
@@ -168,4 +170,5 @@ def _append(piece: Piece, line_offset: int, tokens: list[Token], variables: list
     for v in piece.variables:
         variables.append(Variable(v.name, v.kind, [i + token_offset for i in v.occurrences],
                                   v.scope_start + line_offset, v.scope_end + line_offset, v.function,
-                                  v.public_parameter, v.bound_names, v.scope_kind))
+                                  v.public_parameter, v.bound_names, v.scope_kind,
+                                  tuple(i + token_offset for i in v.shorthand), v.dictated))

@@ -16,19 +16,20 @@ from itertools import repeat
 from pathlib import Path
 
 from .chunks import PieceCache, read_python
-from .scopes import Variable, find_variables, python_variables
-from .tokens import Token, language_for_path, lex
+from .languages import GENERATED_SUFFIXES, language_for_path, lex
+from .languages.python_scopes import python_variables
+from .scopes import Variable, find_variables
+from .tokens import Token
 
 MAX_FILE_BYTES = 1 << 20
 MAX_LINE_CHARS = 1000  # a longer line marks a minified or generated file
-CACHE_FORMAT = 4
+CACHE_FORMAT = 5
 
 DEFAULT_EXCLUDES = (
     "node_modules", "vendor", "third_party", "third-party", "build", "dist", "out", "target",
     ".git", ".hg", ".svn", ".venv", "venv", "env", "__pycache__", ".tox", ".mypy_cache",
     ".cognomen", "site-packages", "bower_components", ".next", "coverage", "generated",
 )
-GENERATED_SUFFIXES = (".min.js", ".min.css", "_pb2.py", ".pb.go", ".generated.ts", ".d.ts", "_generated.go")
 
 
 @dataclass
@@ -253,7 +254,8 @@ def _to_record(source: SourceFile) -> dict:
         "bound_common": sorted(common),
         "bound_sets": [sorted(names - common) for names in sets],
         "variables": [[v.name, v.kind, v.occurrences, v.scope_start, v.scope_end, v.function,
-                       v.public_parameter, sets[v.bound_names], v.scope_kind] for v in source.variables],
+                       v.public_parameter, sets[v.bound_names], v.scope_kind, v.shorthand, v.dictated]
+                      for v in source.variables],
     }
 
 
@@ -270,8 +272,10 @@ def _from_record(record: dict, path: str, digest: str) -> SourceFile:
         raise ValueError("token lists disagree in length")
     common = frozenset(record["bound_common"])
     sets = [common.union(names) for names in record["bound_sets"]]
-    variables = [Variable(name, kind, occurrences, start, end, function, public, sets[bound], scope_kind)
-                 for name, kind, occurrences, start, end, function, public, bound, scope_kind in record["variables"]]
+    variables = [Variable(name, kind, occurrences, start, end, function, public, sets[bound], scope_kind,
+                          tuple(shorthand), dictated)
+                 for name, kind, occurrences, start, end, function, public, bound, scope_kind, shorthand, dictated
+                 in record["variables"]]
     return SourceFile(path, record["language"], digest, record["lines"], tokens, variables)
 
 

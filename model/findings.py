@@ -13,7 +13,7 @@ from .chunks import PieceCache
 from .corpus import SourceFile, analyse
 from .scopes import Variable
 from .scoring import IGNORED_NAMES, Judgement, Scorer, Suggestion, allowed_mask, rank_candidates, token_ids
-from .tokens import language_for_path
+from .languages import get_language, language_for_path
 
 
 @dataclass
@@ -32,6 +32,12 @@ class Finding:
     suggestions: list[Suggestion]
     variable: Variable = field(repr=False)
     occurrences: list[tuple[int, int]] = field(default_factory=list)  # (line, column) of every use
+    shorthand: dict[tuple[int, int], str] = field(default_factory=dict)  # uses that also name a property
+
+    def rename_edits(self, new_name: str) -> list[tuple[int, int, int, str]]:
+        """(line, column, length, new text) for every use: a rename that changes the uses and nothing else."""
+        return [(line, column, len(self.name), self.shorthand[(line, column)].format(new_name)
+                 if (line, column) in self.shorthand else new_name) for line, column in self.occurrences]
 
     def to_json(self) -> dict:
         return {
@@ -52,11 +58,16 @@ def _finding(source: SourceFile, judgement: Judgement, scorer: Scorer, threshold
     variable = judgement.variable
     first = source.tokens[variable.occurrences[0]]
     places = [(source.tokens[i].line, source.tokens[i].column) for i in variable.occurrences]
+    shorthand = {}
+    if variable.shorthand:
+        # `{timeout}` keeps its property's name: a rename writes `timeout: {new name}` there.
+        pattern = get_language(source.language).shorthand_rename(variable.name, "{}")
+        shorthand = {(source.tokens[i].line, source.tokens[i].column): pattern for i in variable.shorthand}
     return Finding(
         path=source.path, line=first.line, column=first.column, end_line=first.line,
         end_column=first.column + len(variable.name), name=variable.name, score=judgement.oddness,
         threshold=threshold, flagged=scorer.is_flagged(judgement, threshold),
-        suggestions=judgement.suggestions, variable=variable, occurrences=places,
+        suggestions=judgement.suggestions, variable=variable, occurrences=places, shorthand=shorthand,
     )
 
 
@@ -157,15 +168,6 @@ def suggest_at(scorer: Scorer, source: SourceFile, line: int, column: int,
 HOLE = "cognomen_new_name"
 _IDENTIFIER_END = re.compile(r"[A-Za-z_$][A-Za-z0-9_$]*$")
 _IDENTIFIER_START = re.compile(r"^[A-Za-z0-9_$]*")
-_BINDING_BEFORE = {
-    "python": [re.compile(r"^\s*$"), re.compile(r"\bfor\s+([A-Za-z_]\w*\s*,\s*)*$"),
-               re.compile(r"\b(as)\s+$"), re.compile(r"\bdef\s+\w+\s*\((.*,)?\s*\**$")],
-    "javascript": [re.compile(r"\b(let|const|var)\s+$"), re.compile(r"\bfunction\s*\w*\s*\(([^)]*,)?\s*$")],
-    "typescript": [re.compile(r"\b(let|const|var)\s+$"), re.compile(r"\bfunction\s*\w*\s*\(([^)]*,)?\s*$")],
-    "go": [re.compile(r"^\s*$"), re.compile(r"\bvar\s+$"), re.compile(r"\bfor\s+$")],
-}
-
-
 def complete_binding(scorer: Scorer, text: str, path: str, line: int, column: int,
                      language: str | None = None, limit: int = 10,
                      pieces: PieceCache | None = None) -> list[Suggestion] | None:
@@ -176,14 +178,15 @@ def complete_binding(scorer: Scorer, text: str, path: str, line: int, column: in
     """
     language = language or language_for_path(path.rsplit("/", 1)[-1])
     lines = text.split("\n")
-    if language not in _BINDING_BEFORE or not 0 < line <= len(lines):
+    patterns = get_language(language).binding_before if language else ()
+    if not patterns or not 0 < line <= len(lines):
         return None
     current = lines[line - 1]
     before, after = current[: column - 1], current[column - 1:]
     typed = _IDENTIFIER_END.search(before)
     prefix = typed.group(0) if typed else ""
     head = before[: len(before) - len(prefix)]
-    if not any(pattern.search(head) for pattern in _BINDING_BEFORE[language]):
+    if not any(pattern.search(head) for pattern in patterns):
         return None
     rest = _IDENTIFIER_START.match(after).group(0)
     lines[line - 1] = head + HOLE + after[len(rest):]

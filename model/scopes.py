@@ -1,22 +1,17 @@
-"""Variables and their scopes: exact for Python (ast + symtable), from the token stream elsewhere."""
+"""Variables and their scopes. Python reads them exactly (ast + symtable, see languages/python_scopes.py);
+the other languages from the token stream, by block depth and the declaration patterns each
+language module supplies."""
 
 from __future__ import annotations
 
-import ast
 import bisect
-import builtins
-import keyword
-import symtable
-import warnings
 from dataclasses import dataclass, field
 
-from .tokens import KEYWORD, NAME, OPERATOR, Token
+from .tokens import NAME, OPERATOR, Token
 
 PARAMETER = "parameter"
 LOCAL = "local"
 
-PYTHON_BUILTINS = frozenset(dir(builtins))
-PYTHON_KEYWORDS = frozenset(keyword.kwlist) | frozenset(keyword.softkwlist)
 # Receivers are not chosen freely; they never count as misnamed nor as candidates.
 RECEIVER_NAMES = frozenset({"self", "cls", "this"})
 
@@ -34,355 +29,63 @@ class Variable:
     public_parameter: bool = False
     bound_names: frozenset[str] = field(default_factory=frozenset)
     scope_kind: str = "function"  # function, lambda, comprehension, or block (token-based languages)
+    shorthand: tuple[int, ...] = ()  # occurrences that are also a property's name (`{timeout}`)
+    dictated: str = ""  # why the name is not the team's to choose (an override's parameter...), or ""
 
 
 def find_variables(text: str, tokens: list[Token], language: str) -> list[Variable]:
     """All function-local variables and parameters of a file, in order of their binding."""
-    if language == "python":
-        try:
-            variables = python_variables(text, tokens)
-        except (SyntaxError, ValueError, RecursionError, MemoryError):
-            variables = _token_variables(tokens, language)
-    else:
-        variables = _token_variables(tokens, language)
-    variables = [v for v in variables if v.occurrences]
+    from .languages import get_language
+
+    variables = [v for v in get_language(language).find_variables(text, tokens) if v.occurrences]
     variables.sort(key=lambda v: v.occurrences[0])
     return variables
 
 
-# --- Python -----------------------------------------------------------------------------
-
-
-_SCOPE_NODES = (ast.FunctionDef, ast.AsyncFunctionDef, ast.Lambda, ast.ListComp, ast.SetComp,
-                ast.DictComp, ast.GeneratorExp, ast.ClassDef)
-_COMPREHENSION_NAMES = {ast.ListComp: "listcomp", ast.SetComp: "setcomp", ast.DictComp: "dictcomp",
-                        ast.GeneratorExp: "genexpr"}
-
-
-# Nodes that never hold a name: contexts, operators, constants, import aliases.
-_LEAVES = (ast.expr_context, ast.operator, ast.cmpop, ast.boolop, ast.unaryop, ast.Constant, ast.alias)
-
-
-def _table_key(node: ast.AST) -> tuple[str, int]:
-    if isinstance(node, (ast.FunctionDef, ast.AsyncFunctionDef, ast.ClassDef)):
-        return node.name, node.lineno
-    if isinstance(node, ast.Lambda):
-        return "lambda", node.lineno
-    return _COMPREHENSION_NAMES[type(node)], node.lineno
-
-
-class _Scope:
-    __slots__ = ("node", "table", "parent", "occurrences", "function")
-
-    def __init__(self, node, table, parent, function):
-        self.node = node
-        self.table = table
-        self.parent = parent
-        self.function = function
-        self.occurrences: dict[str, list[tuple[int, int, str]]] = {}
-
-
-def python_variables(text: str, tokens: list[Token]) -> list[Variable]:
-    """Function-local variables of a whole Python file; raises SyntaxError when it does not compile."""
-    variables, module_names = python_scopes(text, tokens)
-    add_module_names(variables, module_names)
-    return variables
-
-
-def add_module_names(variables: list[Variable], module_names: frozenset[str]) -> None:
-    """Widen each variable's bound names by the module's (one set per scope, shared)."""
-    widened: dict[frozenset[str], frozenset[str]] = {}
-    for variable in variables:
-        local = variable.bound_names
-        if local not in widened:
-            widened[local] = local | module_names
-        variable.bound_names = widened[local]
-
-
-def python_scopes(text: str, tokens: list[Token], future: str = "") -> tuple[list[Variable], frozenset[str]]:
-    """Function-local variables of Python source and the names its module level binds or uses.
-
-    The variables' bound names leave the module's names out, so that the pieces of a file
-    read one top-level statement at a time can be put together (see `chunks`); `future`
-    holds the file's `from __future__` line for a piece that does not (it changes what
-    annotations bind). Raises SyntaxError (or ValueError) for source that does not compile.
-    """
-    with warnings.catch_warnings():
-        warnings.simplefilter("ignore")
-        tree = ast.parse(future + text)
-        top = symtable.symtable(future + text, "<file>", "exec")
-    shift = future.count("\n")
-    if shift:
-        ast.increment_lineno(tree, -shift)
-    lines = text.split("\n")
-    wide_lines = {number for number, line in enumerate(lines, 1) if not line.isascii()}
-    name_index = {(t.line, t.column): i for i, t in enumerate(tokens) if t.kind == NAME}
-    module_names = frozenset(top.get_identifiers())
-
-    # Match ast scope nodes to symtable children by (name, line) and order of appearance.
-    scopes: list[_Scope] = []
-
-    def children_by_key(table) -> dict[tuple[str, int], list]:
-        grouped: dict[tuple[str, int], list] = {}
-        for child in table.get_children():
-            grouped.setdefault((child.get_name(), child.get_lineno() - shift), []).append(child)
-        return grouped
-
-    def char_column(line: int, byte_offset: int) -> int:
-        if line in wide_lines:  # ast counts bytes of UTF-8; only lines beyond ASCII differ from characters
-            return len(lines[line - 1].encode("utf-8")[:byte_offset].decode("utf-8", "replace")) + 1
-        return byte_offset + 1
-
-    def resolve(scope: _Scope | None, name: str) -> _Scope | None:
-        """The innermost function-like scope in which the name is local, following Python's rules."""
-        first = True
-        while scope is not None:
-            if isinstance(scope.node, ast.ClassDef):
-                if first:
-                    return None
-                scope = scope.parent
-                continue
-            try:
-                symbol = scope.table.lookup(name)
-            except KeyError:
-                symbol = None
-            if symbol is not None:
-                if symbol.is_global() or symbol.is_declared_global():
-                    return None
-                if symbol.is_local() or symbol.is_parameter():
-                    return scope
-            scope = scope.parent
-            first = False
-        return None
-
-    def record(scope: _Scope | None, name: str, line: int, column: int, how: str) -> None:
-        owner = resolve(scope, name)
-        if owner is not None:
-            owner.occurrences.setdefault(name, []).append((line, column, how))
-
-    def search_name(node: ast.AST, name: str, last: bool = False) -> tuple[int, int] | None:
-        start = (node.lineno, char_column(node.lineno, node.col_offset))
-        end_line = getattr(node, "end_lineno", None) or node.lineno
-        end = (end_line, char_column(end_line, getattr(node, "end_col_offset", None) or 10**6))
-        found = None
-        for (line, column), index in _range_names(name_index, tokens, start, end):
-            if tokens[index].text == name:
-                found = (line, column)
-                if not last:
-                    break
-        return found
-
-    def visit(node: ast.AST, scope: _Scope | None, children: dict) -> None:
-        for field in node._fields:
-            value = getattr(node, field, None)
-            if isinstance(value, list):
-                for item in value:
-                    if isinstance(item, ast.AST) and not isinstance(item, _LEAVES):
-                        visit_node(item, scope, children)
-            elif isinstance(value, ast.AST) and not isinstance(value, _LEAVES):
-                visit_node(value, scope, children)
-
-    def visit_node(node: ast.AST, scope: _Scope | None, children: dict) -> None:
-        if isinstance(node, ast.Name):
-            record(scope, node.id, node.lineno, char_column(node.lineno, node.col_offset), LOCAL)
-            return
-        if isinstance(node, _SCOPE_NODES):
-            # Decorators, defaults, bases and the first iterable belong to the enclosing scope.
-            if isinstance(node, (ast.FunctionDef, ast.AsyncFunctionDef, ast.ClassDef)):
-                for decorator in node.decorator_list:
-                    visit_node(decorator, scope, children)
-            if isinstance(node, (ast.FunctionDef, ast.AsyncFunctionDef, ast.Lambda)):
-                for default in node.args.defaults + [d for d in node.args.kw_defaults if d]:
-                    visit_node(default, scope, children)
-            if isinstance(node, (ast.FunctionDef, ast.AsyncFunctionDef)):
-                for annotated in _annotations(node):
-                    visit_node(annotated, scope, children)
-            if isinstance(node, ast.ClassDef):
-                for base in node.bases + [k.value for k in node.keywords]:
-                    visit_node(base, scope, children)
-            if isinstance(node, (ast.ListComp, ast.SetComp, ast.DictComp, ast.GeneratorExp)):
-                visit_node(node.generators[0].iter, scope, children)
-            matches = children.get(_table_key(node))
-            if not matches:
-                return
-            table = matches.pop(0)
-            function = getattr(node, "name", "<lambda>") if not isinstance(node, ast.ClassDef) else ""
-            if isinstance(node, (ast.ListComp, ast.SetComp, ast.DictComp, ast.GeneratorExp)):
-                function = scope.function if scope else ""
-            inner = _Scope(node, table, scope, function)
-            scopes.append(inner)
-            grandchildren = children_by_key(table)
-            if isinstance(node, (ast.FunctionDef, ast.AsyncFunctionDef, ast.Lambda)):
-                for arg in _all_args(node.args):
-                    record(inner, arg.arg, arg.lineno, char_column(arg.lineno, arg.col_offset), PARAMETER)
-                body = node.body if isinstance(node.body, list) else [node.body]
-                for statement in body:
-                    visit_node(statement, inner, grandchildren)
-            elif isinstance(node, ast.ClassDef):
-                for statement in node.body:
-                    visit_node(statement, inner, grandchildren)
-            else:
-                for index, generator in enumerate(node.generators):
-                    visit_node(generator.target, inner, grandchildren)
-                    if index:
-                        visit_node(generator.iter, inner, grandchildren)
-                    for condition in generator.ifs:
-                        visit_node(condition, inner, grandchildren)
-                for part in ("elt", "key", "value"):
-                    if hasattr(node, part):
-                        visit_node(getattr(node, part), inner, grandchildren)
-            return
-        if isinstance(node, ast.ExceptHandler) and node.name:
-            where = search_name(node, node.name)
-            if where:
-                record(scope, node.name, *where, LOCAL)
-        elif isinstance(node, (ast.MatchAs, ast.MatchStar)) and node.name:
-            where = search_name(node, node.name, last=True)
-            if where:
-                record(scope, node.name, *where, LOCAL)
-        elif isinstance(node, ast.MatchMapping) and node.rest:
-            where = search_name(node, node.rest, last=True)
-            if where:
-                record(scope, node.rest, *where, LOCAL)
-        visit(node, scope, children)
-
-    visit(tree, None, children_by_key(top))
-
-    variables: list[Variable] = []
-    for scope in scopes:
-        if isinstance(scope.node, ast.ClassDef):
-            continue
-        bound = _bound_names(scope)
-        is_function = isinstance(scope.node, (ast.FunctionDef, ast.AsyncFunctionDef))
-        positional_only = {a.arg for a in scope.node.args.posonlyargs} if is_function else set()
-        public = is_function and not scope.node.name.startswith("_")
-        for name, places in scope.occurrences.items():
-            symbol = scope.table.lookup(name)
-            if symbol.is_imported() or symbol.is_namespace():
-                continue
-            indices = sorted({name_index[(line, column)] for line, column, _ in places
-                              if (line, column) in name_index and tokens[name_index[(line, column)]].text == name})
-            if not indices:
-                continue
-            is_parameter = symbol.is_parameter()
-            variables.append(Variable(
-                name=name,
-                kind=PARAMETER if is_parameter else LOCAL,
-                occurrences=indices,
-                scope_start=scope.node.lineno,
-                scope_end=getattr(scope.node, "end_lineno", scope.node.lineno) or scope.node.lineno,
-                function=scope.function,
-                public_parameter=bool(is_parameter and public and name not in positional_only),
-                bound_names=bound,
-                scope_kind="function" if is_function else "lambda" if isinstance(scope.node, ast.Lambda)
-                else "comprehension",
-            ))
-    return variables, module_names
-
-
-def _annotations(node) -> list[ast.AST]:
-    found = [a.annotation for a in _all_args(node.args) if a.annotation is not None]
-    if node.returns is not None:
-        found.append(node.returns)
-    return found
-
-
-def _all_args(arguments: ast.arguments) -> list[ast.arg]:
-    found = list(arguments.posonlyargs) + list(arguments.args)
-    if arguments.vararg:
-        found.append(arguments.vararg)
-    found.extend(arguments.kwonlyargs)
-    if arguments.kwarg:
-        found.append(arguments.kwarg)
-    return found
-
-
-def _bound_names(scope: _Scope) -> frozenset[str]:
-    """Names a new name must not take: this scope's, enclosing and nested scopes' (the module's come later)."""
-    names: set[str] = set()
-    outer = scope
-    while outer is not None:
-        names.update(outer.table.get_identifiers())
-        outer = outer.parent
-    pending = list(scope.table.get_children())
-    while pending:
-        child = pending.pop()
-        names.update(child.get_identifiers())
-        pending.extend(child.get_children())
-    return frozenset(names)
-
-
-def _range_names(name_index, tokens, start, end):
-    for position, index in name_index.items():
-        if start <= position <= end:
-            yield position, index
-
-
-# --- other languages: bindings from the token stream ------------------------------------
-
-_TYPE_BLOCK_WORDS = frozenset({"class", "interface", "struct", "enum", "namespace", "impl", "trait",
-                               "mod", "record", "union", "module", "type", "extern"})
-_DECLARATION_WORDS = {
-    "javascript": {"let", "const", "var"},
-    "typescript": {"let", "const", "var"},
-    "rust": {"let"},
-    "go": {"var"},
-    "java": {"var"},
-    "csharp": {"var"},
-    "cpp": {"auto"},
-    "c": set(),
-    "python": set(),
-}
-_NOT_BEFORE_TYPE = frozenset({"return", "new", "throw", "case", "else", "goto", "typeof", "await",
-                              "yield", "in", "of", "instanceof", "delete", "void", "sizeof", "go", "defer"})
-_TYPED_LANGUAGES = frozenset({"java", "c", "cpp", "csharp"})
+# --- bindings from the token stream -----------------------------------------------------
 
 
 @dataclass(slots=True)
-class _Block:
+class Block:
     start: int  # token index of "{" (or of the first token for the file)
     end: int  # token index of the matching "}"
     is_type_body: bool
     parent: int  # index into blocks, -1 for none
 
 
-def _token_variables(tokens: list[Token], language: str) -> list[Variable]:
-    if language == "python":
-        return python_token_variables(tokens)
-    blocks, block_of = _blocks(tokens)
+def token_variables(tokens: list[Token], language) -> list[Variable]:
+    """Variables by block depth and the language's declaration and parameter patterns."""
+    from .languages.base import KEY, SHORTHAND
+
+    blocks, block_of = blocks_of(tokens, language)
     declarations: list[tuple[int, int, str]] = []  # (token index, block id, kind)
-    declaration_words = _DECLARATION_WORDS.get(language, set())
-    count = len(tokens)
+    member_access = language.member_access
     for i, token in enumerate(tokens):
-        if token.kind != NAME or block_of[i] < 0 or blocks[block_of[i]].is_type_body:
+        block = block_of[i]
+        if block < 0 or blocks[block].is_type_body or (
+                token.kind == OPERATOR and token.text not in language.declaration_operators):
             continue
-        previous = tokens[i - 1] if i else None
-        following = tokens[i + 1] if i + 1 < count else None
-        if previous is not None and previous.text in (".", "->", "::"):
+        if i and tokens[i - 1].text in member_access:
             continue
-        if previous is not None and previous.text in declaration_words:
-            declarations.append((i, block_of[i], LOCAL))
-            if language in ("javascript", "typescript", "go"):
-                declarations.extend((j, block_of[j], LOCAL) for j in _more_declarators(tokens, i))
-        elif previous is not None and previous.text == "mut" and i > 1 and tokens[i - 2].text == "let":
-            declarations.append((i, block_of[i], LOCAL))
-        elif language == "go" and following is not None and following.text == ":=":
-            declarations.append((i, block_of[i], LOCAL))
-            j = i - 1
-            while j > 0 and tokens[j].text == "," and tokens[j - 1].kind == NAME:
-                declarations.append((j - 1, block_of[i], LOCAL))
-                j -= 2
-        elif language in ("rust",) and previous is not None and previous.text == "for":
-            declarations.append((i, block_of[i], LOCAL))
-        elif (language in _TYPED_LANGUAGES and previous is not None and following is not None
-              and following.text in ("=", ";", ":") and _looks_like_type_end(tokens, i - 1)):
-            declarations.append((i, block_of[i], LOCAL))
-    # Parameters: names in the parenthesised list right before a block opens.
+        for index in language.declarations(tokens, i):
+            declarations.append((index, block, LOCAL))
+    # A loop's, catch's or closure's header binds names for its block alone; parameters are the
+    # names in the parenthesised list right before a block opens.
+    header_block: dict[int, int] = {}
+    public_blocks: set[int] = set()
     for block_id, block in enumerate(blocks):
         if block.start <= 0 or block.is_type_body:
             continue
-        for index in _parameters_before(tokens, block.start, language):
+        header = language.block_header(tokens, block.start)
+        starts = [k for k in header if tokens[k].text != "else"][:1]
+        if starts and tokens[starts[0]].text in language.scoped_headers:
+            header_block.update((k, block_id) for k in header)
+        parameters = language.parameters_before(tokens, block.start)
+        for index in parameters:
             declarations.append((index, block_id, PARAMETER))
+        if parameters and language.is_public_function(tokens, header):
+            public_blocks.add(block_id)
+    declarations = [(index, header_block.get(index, block_id), kind) for index, block_id, kind in declarations]
 
     declared_in: dict[tuple[int, str], int] = {}
     for index, block_id, _ in declarations:
@@ -396,89 +99,63 @@ def _token_variables(tokens: list[Token], language: str) -> list[Variable]:
     bound_in: dict[int, frozenset[str]] = {}
     variables: list[Variable] = []
     seen: set[tuple[int, str]] = set()
+    count = len(tokens)
     for index, block_id, kind in sorted(declarations):
         name = tokens[index].text
-        if (block_id, name) in seen or name in RECEIVER_NAMES:
+        if (block_id, name) in seen or name in RECEIVER_NAMES or name in language.receivers:
             continue
         seen.add((block_id, name))
         block = blocks[block_id]
-        occurrences = [index]
+        occurrences, shorthand = [], []
         shadowed_until = -1
         named = places.get(name, [])
-        for j in named[bisect.bisect_right(named, index):bisect.bisect_left(named, block.end)]:
+        for j in named[bisect.bisect_left(named, index):bisect.bisect_left(named, block.end)]:
             if j <= shadowed_until:
                 continue
             inner = block_of[j]
-            if inner != block_id and declared_in.get((inner, name), 10**12) <= j:
+            if j != index and inner != block_id and declared_in.get((inner, name), count) <= j:
                 shadowed_until = blocks[inner].end
                 continue
-            if j and tokens[j - 1].text in (".", "->", "::"):
+            if j != index and j and tokens[j - 1].text in member_access:
                 continue
-            if (j + 1 < count and tokens[j + 1].text == ":" and tokens[j - 1].text in ("{", ",")
-                    and language in ("javascript", "typescript")):
+            role = language.occurrence_role(tokens, j, blocks[inner].start if inner >= 0 else -1)
+            if role == KEY:
                 continue
+            if role == SHORTHAND:
+                shorthand.append(j)
             occurrences.append(j)
+        if not occurrences or occurrences[0] != index:
+            continue  # the declaration itself was a key, not a binding
         function_start = _function_block(blocks, block_id)
         bound = bound_in.get(function_start)
         if bound is None:
             bound = bound_in[function_start] = frozenset(
                 tokens[j].text for j in range(blocks[function_start].start, blocks[function_start].end)
-                if tokens[j].kind == NAME and not (j and tokens[j - 1].text == "."))
+                if tokens[j].kind == NAME and not (j and tokens[j - 1].text in member_access))
         variables.append(Variable(
             name=name,
             kind=kind,
             occurrences=occurrences,
             scope_start=tokens[block.start].line,
             scope_end=tokens[block.end - 1].line if block.end > 0 else tokens[-1].line,
+            public_parameter=kind == PARAMETER and block_id in public_blocks,
             bound_names=bound,
             scope_kind="block",
+            shorthand=tuple(shorthand),
         ))
     return variables
 
 
-def _more_declarators(tokens: list[Token], first: int) -> list[int]:
-    """Further names in `var a = 1, b, c = f(x, y);`: those after a top-level comma."""
-    found, depth = [], 0
-    for j in range(first + 1, len(tokens)):
-        text = tokens[j].text
-        if text in ("(", "[", "{"):
-            depth += 1
-        elif text in (")", "]", "}"):
-            depth -= 1
-            if depth < 0:
-                break
-        elif depth == 0 and text in (";", "in", "of"):
-            break
-        elif depth == 0 and tokens[j].line != tokens[j - 1].line and tokens[j - 1].text not in (",", "=") \
-                and tokens[j - 1].kind != OPERATOR:
-            break
-        elif depth == 0 and text == "," and j + 1 < len(tokens) and tokens[j + 1].kind == NAME:
-            found.append(j + 1)
-    return found
-
-
-def _looks_like_type_end(tokens: list[Token], i: int) -> bool:
-    if i < 0:
-        return False
-    token = tokens[i]
-    if token.kind == NAME or (token.kind == KEYWORD and token.text not in _NOT_BEFORE_TYPE
-                              and token.text not in ("true", "false", "null", "this", "super")):
-        before = tokens[i - 1] if i else None
-        return before is None or before.text in (";", "{", "}", "(", ",", ")") or (
-            before.kind == KEYWORD and before.text not in _NOT_BEFORE_TYPE) or before.text == "::"
-    return token.text in (">", "]", "*", "&", "?")
-
-
-def _blocks(tokens: list[Token]) -> tuple[list[_Block], list[int]]:
-    blocks: list[_Block] = []
+def blocks_of(tokens: list[Token], language) -> tuple[list[Block], list[int]]:
+    """Every brace block, and for each token the innermost block holding it (-1 at top level)."""
+    blocks: list[Block] = []
     block_of = [-1] * len(tokens)
     stack: list[int] = []
     last_boundary = 0
     for i, token in enumerate(tokens):
         if token.text == "{" and token.kind == OPERATOR:
-            header = {t.text for t in tokens[last_boundary:i]}
-            blocks.append(_Block(i, len(tokens), _is_type_body(header, tokens[i - 1].text if i else ""),
-                                 stack[-1] if stack else -1))
+            blocks.append(Block(i, len(tokens), language.is_type_body(tokens, range(last_boundary, i), i),
+                                stack[-1] if stack else -1))
             stack.append(len(blocks) - 1)
             last_boundary = i + 1
         elif token.text == "}" and token.kind == OPERATOR:
@@ -494,109 +171,8 @@ def _blocks(tokens: list[Token]) -> tuple[list[_Block], list[int]]:
     return blocks, block_of
 
 
-def _is_type_body(header: set[str], before_brace: str) -> bool:
-    """Whether a block holds members (class, struct, namespace...) rather than statements."""
-    if header & _TYPE_BLOCK_WORDS and "(" not in header:
-        return True
-    # `class Foo extends Bar(...) {` and the like, but not a function or lambda that mentions a type word.
-    return bool(header & {"class", "interface", "struct", "enum"}) and "=>" not in header \
-        and "function" not in header and before_brace != ")"
-
-
-def _function_block(blocks: list[_Block], block_id: int) -> int:
+def _function_block(blocks: list[Block], block_id: int) -> int:
     while blocks[block_id].parent >= 0 and not blocks[blocks[block_id].parent].is_type_body:
         block_id = blocks[block_id].parent
     return block_id
 
-
-def _parameters_before(tokens: list[Token], brace: int, language: str) -> list[int]:
-    """Token indices of parameter names in the parameter list that a block follows."""
-    j = brace - 1
-    # Skip a return type or throws clause: walk back to the nearest ")" on the header.
-    while j >= 0 and tokens[j].text != ")" and tokens[j].text not in (";", "{", "}", "=", "("):
-        j -= 1
-    if j < 0 or tokens[j].text != ")":
-        return []
-    close, depth = j, 0
-    while j >= 0:
-        if tokens[j].text in (")", "]"):
-            depth += 1
-        elif tokens[j].text in ("(", "["):
-            depth -= 1
-            if depth == 0:
-                break
-        j -= 1
-    if j <= 0:
-        return []
-    keyword_before = tokens[j - 1].text
-    if keyword_before in ("if", "while", "for", "switch", "catch", "foreach", "using", "lock", "match"):
-        return []
-    groups: list[list[int]] = [[]]
-    depth = 0
-    for k in range(j + 1, close):
-        text = tokens[k].text
-        if text in ("(", "[", "{", "<"):
-            depth += 1
-        elif text in (")", "]", "}", ">") and depth:
-            depth -= 1
-        if text == "," and depth == 0:
-            groups.append([])
-        elif depth == 0 or text in ("<", "(", "[", "{"):
-            groups[-1].append(k)
-    found = []
-    for group in groups:
-        names = [k for k in group if tokens[k].kind == NAME]
-        if not names:
-            continue
-        if language in ("javascript", "typescript", "rust"):
-            first = next((k for k in group if tokens[k].text not in ("...", "mut", "&", "readonly", "public",
-                                                                      "private", "protected")), None)
-            if first is not None and tokens[first].kind == NAME:
-                nxt = tokens[first + 1].text if first + 1 < len(tokens) else ""
-                if nxt in (":", ",", ")", "=", "?") or first == close - 1:
-                    found.append(first)
-        elif language == "go":
-            first = group[0]
-            if tokens[first].kind == NAME and len(group) > 1:
-                found.append(first)
-        else:
-            # Java, C, C++, C#: the name is the last identifier before any default value.
-            head = group
-            if "=" in [tokens[k].text for k in group]:
-                head = group[:[tokens[k].text for k in group].index("=")]
-            head_names = [k for k in head if tokens[k].kind == NAME]
-            if len(head) >= 2 and head_names and head_names[-1] == head[-1]:
-                found.append(head[-1])
-    return found
-
-
-def python_token_variables(tokens: list[Token]) -> list[Variable]:
-    """Fallback for Python with syntax errors: assignments and parameters by indentation-free rules."""
-    variables: dict[tuple[int, str], Variable] = {}
-    function_start = -1
-    for i, token in enumerate(tokens):
-        if token.text == "def" and token.kind == KEYWORD:
-            function_start = i
-        if token.kind != NAME or function_start < 0:
-            continue
-        previous = tokens[i - 1].text if i else ""
-        following = tokens[i + 1].text if i + 1 < len(tokens) else ""
-        key = (function_start, token.text)
-        if key in variables:
-            if previous != ".":
-                variables[key].occurrences.append(i)
-            continue
-        is_parameter = previous in ("(", ",") and following in (",", ")", ":", "=") and \
-            _inside_def_header(tokens, function_start, i)
-        is_binding = (following == "=" and previous not in (".", "(", ",")) or previous == "for" or previous == "as"
-        if (is_parameter or is_binding) and token.text not in RECEIVER_NAMES:
-            variables[key] = Variable(token.text, PARAMETER if is_parameter else LOCAL, [i],
-                                      tokens[function_start].line, tokens[-1].line)
-    return list(variables.values())
-
-
-def _inside_def_header(tokens: list[Token], start: int, i: int) -> bool:
-    for k in range(start, i):
-        if tokens[k].text == ":" and tokens[k - 1].text == ")":
-            return False
-    return True

@@ -2,7 +2,6 @@
 
 from __future__ import annotations
 
-import keyword
 import math
 from dataclasses import dataclass, field
 from typing import ClassVar
@@ -10,7 +9,8 @@ from typing import ClassVar
 import numpy as np
 
 from .corpus import SourceFile
-from .scopes import PYTHON_BUILTINS, PYTHON_KEYWORDS, RECEIVER_NAMES, Variable
+from .languages import get_language
+from .scopes import RECEIVER_NAMES, Variable
 from .tokens import NAME, case_style, fits_style, split_identifier
 from .usage import profile_logs, profile_scores, usage_flags
 from .vocabulary import PAD_TOKEN, SELF_TOKEN, Vocabulary
@@ -24,39 +24,9 @@ STOP_SUBTOKENS = frozenset({"self", "cls", "this"})
 IGNORED_NAMES = RECEIVER_NAMES | {"_", "__"}
 MIN_VARIABLES_TO_JUDGE = 1000  # below this a language gets suggestions but never flags
 
-_RESERVED_WORDS = {
-    "python": PYTHON_KEYWORDS | PYTHON_BUILTINS,
-    "javascript": frozenset("""break case catch class const continue debugger default delete do else export
-        extends finally for function if import in instanceof new return super switch this throw try typeof var
-        void while with yield let static enum await implements package protected interface private public
-        null true false undefined NaN Infinity arguments eval""".split()),
-    "go": frozenset("""break case chan const continue default defer else fallthrough for func go goto if
-        import interface map package range return select struct switch type var true false nil iota append cap
-        close complex copy delete imag len make new panic print println real recover string int error bool
-        byte rune float64 float32 int64 int32 uint any""".split()),
-    "java": frozenset("""abstract assert boolean break byte case catch char class const continue default do
-        double else enum extends final finally float for goto if implements import instanceof int interface
-        long native new package private protected public return short static strictfp super switch
-        synchronized this throw throws transient try void volatile while var record yield true false null""".split()),
-    "rust": frozenset("""as break const continue crate else enum extern false fn for if impl in let loop match
-        mod move mut pub ref return self Self static struct super trait true type unsafe use where while async
-        await dyn""".split()),
-    "c": frozenset("""auto break case char const continue default do double else enum extern float for goto
-        if inline int long register restrict return short signed sizeof static struct switch typedef union
-        unsigned void volatile while bool true false NULL""".split()),
-}
-_RESERVED_WORDS["typescript"] = _RESERVED_WORDS["javascript"] | frozenset(
-    "any boolean number string symbol never unknown object type namespace declare readonly keyof as is".split())
-_RESERVED_WORDS["cpp"] = _RESERVED_WORDS["c"] | frozenset(
-    "class namespace template typename this new delete public private protected virtual nullptr auto".split())
-_RESERVED_WORDS["csharp"] = _RESERVED_WORDS["java"] | frozenset(
-    "string object decimal bool base checked fixed internal lock out override params readonly ref sealed "
-    "stackalloc unchecked unsafe using virtual event delegate operator implicit explicit".split())
-
-
 def reserved_words(language: str) -> frozenset[str]:
     """Keywords and builtins of a language: never suggested as a name."""
-    return _RESERVED_WORDS.get(language, frozenset(keyword.kwlist))
+    return get_language(language).reserved
 
 
 @dataclass

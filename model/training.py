@@ -13,6 +13,7 @@ from dataclasses import asdict, dataclass, field
 import numpy as np
 
 from .corpus import Corpus, SourceFile
+from .languages import get_language
 from .scopes import Variable
 from .scoring import (IGNORED_NAMES, WINDOW, Detector, NameTables, Scorer, Weights, allowed_mask,
                       detection_features, dominant_style, fit_detector, name_fit, occurrence_contexts,
@@ -57,9 +58,6 @@ class TrainSettings:
     def weights(self) -> Weights:
         return Weights(embedding=self.embedding_weight, lexical=self.lexical_weight, counts=self.count_weight,
                        usage=self.usage_weight)
-
-
-_DEFINING = frozenset({".", "def", "function", "func", "fn"})  # before a name that is called or defined
 
 
 def split_files(paths: list[str], share: float, seed: int) -> tuple[set[str], set[str]]:
@@ -141,9 +139,10 @@ def build_tables(files: list[SourceFile], vocabulary: Vocabulary, inputs: np.nda
                 tokens = source.tokens
                 # Method names (`.get(`, `.items(`, `def get(`) are verbs of other objects, not names
                 # for a variable.
+                defining = get_language(source.language).defining_words | {"."}
                 team_words.setdefault(source.language, set()).update(
                     t.text for i, t in enumerate(tokens) if t.kind == "name" and not (
-                        0 < i < len(tokens) - 1 and tokens[i + 1].text == "(" and tokens[i - 1].text in _DEFINING))
+                        0 < i < len(tokens) - 1 and tokens[i + 1].text == "(" and tokens[i - 1].text in defining))
     names, languages, counts = [], [], []
     styles = {}
     for language in sorted(per_language):
@@ -257,7 +256,8 @@ def rename(source: SourceFile, variable: Variable, new_name: str) -> tuple[Sourc
         tokens[index] = type(tokens[index])(new_name, tokens[index].kind, tokens[index].line, tokens[index].column)
     renamed = Variable(new_name, variable.kind, variable.occurrences, variable.scope_start, variable.scope_end,
                        variable.function, variable.public_parameter,
-                       (variable.bound_names - {variable.name}) | {new_name}, variable.scope_kind)
+                       (variable.bound_names - {variable.name}) | {new_name}, variable.scope_kind,
+                       variable.shorthand, variable.dictated)
     variables = [renamed if v is variable else v for v in source.variables]
     return SourceFile(source.path, source.language, source.digest, source.lines, tokens, variables), renamed
 

@@ -11,7 +11,8 @@ from pathlib import Path
 import numpy as np
 
 from .corpus import SkipFile, read_source
-from .tokens import COMMENT, KINDS, NAME, NUMBER, STRING, language_for_path, lex, split_identifier
+from .languages import language_for_path, lex
+from .tokens import COMMENT, KINDS, NAME, NUMBER, STRING, split_identifier
 from .training import split_files
 
 COVERAGE_SIZES = (1_000, 10_000, 60_000)

@@ -26,7 +26,7 @@ from cognomen.model.findings import (Finding, JudgementCache, analyse_text, chec
                                      suggest_at)
 from cognomen.model.persistence import load_scorer
 from cognomen.model.scoring import Scorer
-from cognomen.model.tokens import language_for_path
+from cognomen.model.languages import get_language, language_for_path
 
 from .review import level_of
 from .settings import LEVELS, ServerSettings, parse_settings
@@ -415,8 +415,10 @@ def rename_actions(ls: NameServer, params: types.CodeActionParams) -> list[types
         return []
     source, finding = found
     variable = finding.variable
-    breaks_callers = variable.kind == "parameter" and (variable.public_parameter or source.language != "python")
-    if breaks_callers and variable.public_parameter and not ls.settings.allow_public_parameter_renames:
+    # Callers that pass an argument by its parameter's name break when the parameter is renamed.
+    breaks_callers = variable.kind == "parameter" and variable.public_parameter and \
+        get_language(source.language).keyword_arguments
+    if breaks_callers and not ls.settings.allow_public_parameter_renames:
         return []
     document = ls.workspace.get_text_document(uri)
     kind = types.CodeActionKind.QuickFix if finding.flagged else types.CodeActionKind.RefactorRewrite
@@ -424,8 +426,8 @@ def rename_actions(ls: NameServer, params: types.CodeActionParams) -> list[types
                    and d.range.start.line == finding.line - 1] if finding.flagged else None
     actions = []
     for index, suggestion in enumerate(finding.suggestions[:3]):
-        edits = [types.TextEdit(range=client_range(document, line, column, len(finding.name)),
-                                new_text=suggestion.name) for line, column in finding.occurrences]
+        edits = [types.TextEdit(range=client_range(document, line, column, length), new_text=text)
+                 for line, column, length, text in finding.rename_edits(suggestion.name)]
         title = f"Rename `{finding.name}` to `{suggestion.name}`"
         if breaks_callers:
             title += " (callers passing it by keyword will break)"

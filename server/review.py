@@ -12,7 +12,7 @@ from pathlib import Path
 from cognomen.model.corpus import SkipFile, decode_source, read_settings
 from cognomen.model.findings import Finding, analyse_text, check_source
 from cognomen.model.scoring import Scorer
-from cognomen.model.tokens import language_for_path
+from cognomen.model.languages import language_for_path
 
 LEVELS = ("warning", "error")
 STRONG_MARGIN = 2.0  # oddness this far above the threshold makes an error rather than a warning

@@ -5,9 +5,10 @@ from __future__ import annotations
 import re
 from dataclasses import dataclass, field, fields
 
+from cognomen.model.languages import LANGUAGES
+
 SEVERITIES = ("error", "warning", "information", "hint")
 LEVELS = ("warning", "error")
-LANGUAGES = ("python", "javascript", "typescript", "go", "java", "rust", "c", "cpp", "csharp")
 
 
 @dataclass

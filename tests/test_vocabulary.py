@@ -1,6 +1,6 @@
 """Top-N vocabulary with a minimum count and one unknown token, on a hand-counted example."""
 
-from cognomen.model.tokens import lex
+from cognomen.model.languages import lex
 from cognomen.model.vocabulary import RESERVED, build_vocabulary, count_tokens
 
 

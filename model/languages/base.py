@@ -1,0 +1,215 @@
+"""What every language module answers: the shared machinery asks these, never a language's name."""
+
+from __future__ import annotations
+
+import re
+
+from ..tokens import KEYWORD, NAME, Token, lex_with_pygments
+
+# How an occurrence of a variable's name is used (see `Language.occurrence_role`).
+USE = "use"
+KEY = "key"  # a property or field label that merely looks like the variable (`{timeout: 5}`)
+SHORTHAND = "shorthand"  # both at once (`{timeout}`): a rename writes `timeout: new`
+
+_TYPE_BLOCK_WORDS = frozenset({"class", "interface", "struct", "enum", "namespace", "impl", "trait",
+                               "mod", "record", "union", "module", "type", "extern"})
+_CONTROL_WORDS = frozenset({"if", "while", "for", "switch", "catch", "foreach", "using", "lock", "match"})
+
+
+class Language:
+    """A language as cognomen reads it. Subclasses override what differs; one module per family."""
+
+    name = ""
+    pygments_alias = ""  # the pygments lexer that reads it
+    pygments_names: tuple[str, ...] = ()  # pygments lexer names that map to this language
+    reserved: frozenset[str] = frozenset()  # keywords and builtins: never a suggested name
+    receivers: frozenset[str] = frozenset({"this"})  # not chosen freely; never judged
+    keyword_arguments = False  # whether callers may pass an argument by its parameter's name
+    naming_style = "camel"  # for locals, when the team's own style cannot be learned
+    comment_prefix = "//"
+    generated_suffixes: tuple[str, ...] = ()  # file names that mark generated code
+    defining_words: frozenset[str] = frozenset()  # keywords right before a function's name
+    binding_before: tuple[re.Pattern, ...] = ()  # text before the cursor where a new variable is named
+    member_access = frozenset({"."})  # tokens after which a name is a member, not a variable
+    declaration_words: frozenset[str] = frozenset()  # `let`, `var`: the next name is declared
+    declaration_operators: frozenset[str] = frozenset()  # operators that may start a declaration (`|x|`)
+    # A block whose header starts with one of these owns the names its header declares.
+    scoped_headers = frozenset({"for", "foreach", "catch", "while", "using", "switch", "|"})
+
+    def lex(self, text: str, keep_comments: bool = False, raw: bool = False) -> list[Token]:
+        """Normalised tokens (see `tokens.lex_with_pygments`)."""
+        return lex_with_pygments(text, self.pygments_alias, keep_comments, raw)
+
+    def find_variables(self, text: str, tokens: list[Token]) -> list:
+        """Function-local variables and parameters, from the token stream."""
+        from ..scopes import token_variables
+
+        return token_variables(tokens, self)
+
+    # --- hooks of the token-based scope finder (`scopes.token_variables`) ------------------
+
+    def declarations(self, tokens: list[Token], i: int) -> list[int]:
+        """Token indices of the names that a declaration starting at token i binds ([] for none)."""
+        if tokens[i].text in self.declaration_words and i + 1 < len(tokens) and tokens[i + 1].kind == NAME:
+            return [i + 1]
+        return []
+
+    def parameters_before(self, tokens: list[Token], brace: int) -> list[int]:
+        """Token indices of the parameter names of the function whose body opens at `brace`."""
+        found = self.parameter_list(tokens, brace)
+        return self.parameters(tokens, *found) if found else []
+
+    def parameter_list(self, tokens: list[Token], brace: int) -> tuple[int, int] | None:
+        """The parenthesised list a block follows: (index of "(", index of ")"), or None."""
+        j = brace - 1
+        # Skip a return type or throws clause: walk back to the nearest ")" on the header.
+        while j >= 0 and tokens[j].text != ")" and tokens[j].text not in (";", "{", "}", "=", "("):
+            j -= 1
+        if j < 0 or tokens[j].text != ")":
+            return None
+        opening = matching_open(tokens, j)
+        if opening <= 0 or tokens[opening - 1].text in _CONTROL_WORDS:
+            return None
+        return opening, j
+
+    def parameters(self, tokens: list[Token], opening: int, closing: int) -> list[int]:
+        """Parameter names in a list; typed languages: the last name before any default value."""
+        found = []
+        for group in parameter_groups(tokens, opening, closing):
+            texts = [tokens[k].text for k in group]
+            head = group[:texts.index("=")] if "=" in texts else group
+            names = [k for k in head if tokens[k].kind == NAME]
+            if len(head) >= 2 and names and names[-1] == head[-1]:
+                found.append(head[-1])
+        return found
+
+    def is_type_body(self, tokens: list[Token], header: range, brace: int) -> bool:
+        """Whether the block opening at `brace` holds members (class, struct...) rather than statements."""
+        words = {tokens[k].text for k in header}
+        if words & _TYPE_BLOCK_WORDS and "(" not in words:
+            return True
+        # `class Foo extends Bar(...) {` and the like, but not a function or lambda that mentions a type word.
+        before = tokens[brace - 1].text if brace else ""
+        return bool(words & {"class", "interface", "struct", "enum"}) and "=>" not in words \
+            and "function" not in words and before != ")"
+
+    def block_header(self, tokens: list[Token], brace: int) -> range:
+        """The tokens of a block's header: back to the previous statement boundary or unclosed bracket."""
+        j, depth = brace - 1, 0
+        while j >= 0:
+            text = tokens[j].text
+            if text in (")", "]"):
+                depth += 1
+            elif text in ("(", "["):
+                if depth == 0:
+                    break
+                depth -= 1
+            elif depth == 0 and text in (";", "{", "}"):
+                break
+            j -= 1
+        return range(j + 1, brace)
+
+    def occurrence_role(self, tokens: list[Token], j: int, opening: int) -> str:
+        """USE, KEY or SHORTHAND for the name at j; `opening` is the innermost "{" around it (or -1)."""
+        return USE
+
+    def shorthand_rename(self, old: str, new: str) -> str:
+        """What a shorthand occurrence (`{timeout}`) becomes when the variable is renamed."""
+        return f"{old}: {new}"
+
+    def is_public_function(self, tokens: list[Token], header: range) -> bool:
+        """Whether a function whose header spans these tokens can be called from other modules."""
+        return False
+
+
+# --- helpers the language modules share -------------------------------------------------
+
+
+def matching_open(tokens: list[Token], closing: int) -> int:
+    """Index of the "(" or "[" that the bracket at `closing` closes, or -1."""
+    depth = 0
+    j = closing
+    while j >= 0:
+        text = tokens[j].text
+        if text in (")", "]"):
+            depth += 1
+        elif text in ("(", "["):
+            depth -= 1
+            if depth == 0:
+                return j
+        j -= 1
+    return -1
+
+
+def matching_close(tokens: list[Token], opening: int) -> int:
+    """Index of the bracket that closes the one at `opening`, or len(tokens)."""
+    depth = 0
+    for j in range(opening, len(tokens)):
+        text = tokens[j].text
+        if text in ("(", "[", "{"):
+            depth += 1
+        elif text in (")", "]", "}"):
+            depth -= 1
+            if depth == 0:
+                return j
+    return len(tokens)
+
+
+def parameter_groups(tokens: list[Token], opening: int, closing: int) -> list[list[int]]:
+    """Token indices of each comma-separated item between two brackets, nested brackets kept whole."""
+    groups: list[list[int]] = [[]]
+    depth = 0
+    for k in range(opening + 1, closing):
+        text = tokens[k].text
+        if text in ("(", "[", "{", "<"):
+            depth += 1
+        elif text in (")", "]", "}", ">") and depth:
+            depth -= 1
+            groups[-1].append(k)
+            continue
+        if text == "," and depth == 0:
+            groups.append([])
+        else:
+            groups[-1].append(k)
+    return [group for group in groups if group]
+
+
+_TYPE_PUNCTUATION = frozenset({"::", ".", "*", "&", "?", "[", "]"})
+_BOUNDARIES = frozenset({";", "{", "}", "(", ","})
+
+
+def looks_like_type_end(tokens: list[Token], i: int, not_before_type: frozenset[str]) -> bool:
+    """Whether tokens up to i read as a type that starts a declaration (`final List<String>`, `int *`).
+
+    The type must begin at a statement boundary or after a modifier: in `sum += item * scale;`
+    the `*` multiplies, in `int *scale;` it is part of the type.
+    """
+    words_seen = 0
+    j = i
+    while j >= 0:
+        token = tokens[j]
+        if token.text == ">":
+            depth = 0
+            while j >= 0:  # a generic argument list, `Map<String, List<Long>>`
+                depth += {">": 1, ">>": 2, "<": -1}.get(tokens[j].text, 0)
+                if depth <= 0:
+                    break
+                j -= 1
+            j -= 1
+            continue
+        if token.kind == NAME:
+            words_seen += 1
+            if words_seen > 1 and tokens[j + 1].kind == NAME and j + 1 <= i:
+                return False  # two names in a row before the declared name: not a type
+        elif token.kind == KEYWORD:
+            if token.text in not_before_type or token.text in ("true", "false", "null", "this", "super"):
+                return False
+            words_seen += 1
+        elif token.text not in _TYPE_PUNCTUATION:
+            return words_seen > 0 and token.text in _BOUNDARIES
+        j -= 1
+    return words_seen > 0
+
+
+def words(text: str) -> frozenset[str]:
+    return frozenset(text.split())

@@ -1,0 +1,143 @@
+"""Go: `:=` and `var`, parameter groups that share a type, named results, composite-literal keys."""
+
+from __future__ import annotations
+
+import re
+
+from ..tokens import KEYWORD, NAME, Token
+from .base import KEY, USE, Language, matching_close, parameter_groups, words
+
+# Before a "{" on its line, these make it a block rather than a composite literal.
+_CONTROL = frozenset({"if", "for", "switch", "select", "func", "else", "go", "defer"})
+# After a parameter's name, the start of its type (so the list names its parameters).
+_STOPS = frozenset({"{", "}", ";", ":=", "=", "if", "for", "switch", "select", "else", "return", "go", "defer",
+                    "case", ","})
+
+
+class Go(Language):
+    name = "go"
+    pygments_alias = "go"
+    pygments_names = ("Go",)
+    reserved = words("""break case chan const continue default defer else fallthrough for func go goto if
+        import interface map package range return select struct switch type var true false nil iota append cap
+        close complex copy delete imag len make new panic print println real recover string int error bool
+        byte rune float64 float32 int64 int32 uint any""")
+    receivers = frozenset()  # Go names its receivers in their own list, which is never read as parameters
+    generated_suffixes = (".pb.go", "_generated.go")
+    defining_words = frozenset({"func"})
+    binding_before = (re.compile(r"^\s*$"), re.compile(r"\bvar\s+$"), re.compile(r"\bfor\s+$"))
+    declaration_words = frozenset({"var"})
+    scoped_headers = frozenset({"for", "switch", "select"})
+
+    def declarations(self, tokens: list[Token], i: int) -> list[int]:
+        token = tokens[i]
+        if token.text == "var" and token.kind == KEYWORD:
+            found, k = [], i + 1
+            while k < len(tokens) and tokens[k].kind == NAME:
+                found.append(k)
+                if k + 1 < len(tokens) and tokens[k + 1].text == ",":
+                    k += 2
+                else:
+                    break
+            return found
+        if token.kind == NAME and i + 1 < len(tokens) and tokens[i + 1].text == ":=":
+            found, j = [i], i - 1
+            while j > 0 and tokens[j].text == "," and tokens[j - 1].kind == NAME:
+                found.append(j - 1)
+                j -= 2
+            return found
+        return []
+
+    def parameters_before(self, tokens: list[Token], brace: int) -> list[int]:
+        """A function's parameters and named results: `func (r *T) Name(a, b int) (n int, err error) {`."""
+        j, depth = brace - 1, 0
+        while j >= 0:
+            text = tokens[j].text
+            if text in (")", "]"):
+                depth += 1
+            elif text in ("(", "["):
+                depth -= 1
+                if depth < 0:
+                    return []
+            elif depth == 0 and text == "func" and tokens[j].kind == KEYWORD:
+                break
+            elif depth == 0 and text in _STOPS:
+                return []
+            j -= 1
+        if j < 0:
+            return []
+        k = j + 1
+        lists: list[tuple[int, int]] = []
+        if k < brace and tokens[k].text == "(":
+            first = (k, matching_close(tokens, k))
+            k = first[1] + 1
+            if k + 1 < brace and tokens[k].kind == NAME and tokens[k + 1].text in ("(", "["):
+                k += 1  # a method: the first list was its receiver
+            else:
+                lists.append(first)
+        elif k < brace and tokens[k].kind == NAME:
+            k += 1
+        if k < brace and tokens[k].text == "[":  # type parameters
+            k = matching_close(tokens, k) + 1
+        if k < brace and tokens[k].text == "(" and not lists:
+            lists.append((k, matching_close(tokens, k)))
+            k = lists[-1][1] + 1
+        if k < brace and tokens[k].text == "(":  # named results are variables of the body too
+            lists.append((k, matching_close(tokens, k)))
+        return [index for opening, closing in lists for index in self.parameters(tokens, opening, closing)]
+
+    def parameters(self, tokens: list[Token], opening: int, closing: int) -> list[int]:
+        # Either every parameter has a name or none has: `(a, b int)` names two, `(io.Reader, error)` none.
+        groups = parameter_groups(tokens, opening, closing)
+        named = any(len(g) >= 2 and tokens[g[0]].kind == NAME and tokens[g[1]].text != "." for g in groups)
+        if not named:
+            return []
+        return [g[0] for g in groups if tokens[g[0]].kind == NAME and tokens[g[0]].text != "_"]
+
+    def block_header(self, tokens: list[Token], brace: int) -> range:
+        # Go statements end at the line's end: `for i := 0; i < n; i++ {` is one header.
+        line = tokens[brace].line
+        j, depth = brace - 1, 0
+        while j >= 0 and tokens[j].line == line:
+            text = tokens[j].text
+            if text in (")", "]"):
+                depth += 1
+            elif text in ("(", "["):
+                if depth == 0:
+                    break
+                depth -= 1
+            elif depth == 0 and text in ("{", "}"):
+                break
+            j -= 1
+        return range(j + 1, brace)
+
+    def occurrence_role(self, tokens: list[Token], j: int, opening: int) -> str:
+        # `Config{Timeout: timeout}`: the key is a field, the value the variable.
+        if opening < 0 or not j or tokens[j - 1].text not in ("{", ",") or j + 1 >= len(tokens) \
+                or tokens[j + 1].text != ":" or not _is_literal_brace(self, tokens, opening):
+            return USE
+        return KEY
+
+    def is_public_function(self, tokens: list[Token], header: range) -> bool:
+        # An exported function or method: its name starts with a capital letter.
+        texts = [tokens[k] for k in header]
+        for position, token in enumerate(texts[:-1]):
+            if token.kind == NAME and texts[position + 1].text in ("(", "[") and position and (
+                    texts[position - 1].text == "func" or texts[position - 1].text == ")"):
+                return token.text[:1].isupper()
+        return False
+
+
+def _is_literal_brace(language: Go, tokens: list[Token], opening: int) -> bool:
+    """Whether a "{" opens a composite literal (`T{...}`, `[]T{...}`, `map[K]V{...}`) rather than a block."""
+    if opening <= 0:
+        return False
+    before = tokens[opening - 1]
+    if before.text in ("]", "}"):
+        return True
+    if before.kind != NAME:
+        return False
+    return not any(tokens[k].text in _CONTROL for k in language.block_header(tokens, opening))
+
+
+GO = Go()

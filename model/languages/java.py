@@ -1,0 +1,67 @@
+"""Java: typed declarations (`List<String> names = ...`), `var`, anonymous classes hold fields."""
+
+from __future__ import annotations
+
+import re
+
+from ..tokens import NAME, Token
+from .base import Language, looks_like_type_end, matching_open, words
+
+NOT_BEFORE_TYPE = words("return new throw case else goto typeof await yield in of instanceof delete void "
+                        "sizeof go defer")
+
+
+class TypedLanguage(Language):
+    """A language whose declarations put the type first: `Type name = value;`."""
+
+    declaration_followers = frozenset({"=", ";", ":"})  # what may follow the declared name
+
+    def declarations(self, tokens: list[Token], i: int) -> list[int]:
+        token = tokens[i]
+        following = tokens[i + 1].text if i + 1 < len(tokens) else ""
+        if token.text in self.declaration_words and following and tokens[i + 1].kind == NAME:
+            return [i + 1]  # `var total = ...` (some lexers read `var` as a name)
+        if token.kind == NAME:
+            if i and following in self.declaration_followers and \
+                    looks_like_type_end(tokens, i - 1, NOT_BEFORE_TYPE) and \
+                    tokens[i - 1].text not in self.declaration_words:
+                return [i]
+            return []
+        if token.text == "catch" and following == "(":
+            # `catch (IOException | RuntimeException error)`: the last name before ")".
+            k = i + 2
+            while k < len(tokens) and tokens[k].text != ")":
+                k += 1
+            if k < len(tokens) and tokens[k - 1].kind == NAME and k - 1 > i + 2:
+                return [k - 1]
+        return []
+
+    def is_type_body(self, tokens: list[Token], header: range, brace: int) -> bool:
+        if super().is_type_body(tokens, header, brace):
+            return True
+        # An anonymous class, `new Runnable() {`: its body holds fields and methods.
+        if brace and tokens[brace - 1].text == ")":
+            opening = matching_open(tokens, brace - 1)
+            k = opening - 1
+            while k > 0 and (tokens[k].kind == NAME or tokens[k].text in (".", "<", ">", ",")):
+                k -= 1
+            return k >= 0 and k < opening - 1 and tokens[k].text == "new"
+        return False
+
+    def is_public_function(self, tokens: list[Token], header: range) -> bool:
+        return any(tokens[k].text in ("public", "protected") for k in header)
+
+
+class Java(TypedLanguage):
+    name = "java"
+    pygments_alias = "java"
+    pygments_names = ("Java",)
+    reserved = words("""abstract assert boolean break byte case catch char class const continue default do
+        double else enum extends final finally float for goto if implements import instanceof int interface
+        long native new package private protected public return short static strictfp super switch
+        synchronized this throw throws transient try void volatile while var record yield true false null""")
+    binding_before = (re.compile(r"\b(var|final)\s+$"),)
+    declaration_words = frozenset({"var"})
+
+
+JAVA = Java()

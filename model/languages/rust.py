@@ -1,0 +1,152 @@
+"""Rust: `let` and `for` patterns, closures, struct fields and shorthand, snake_case."""
+
+from __future__ import annotations
+
+import re
+
+from ..tokens import KEYWORD, NAME, Token
+from .base import KEY, SHORTHAND, USE, Language, matching_close, parameter_groups, words
+
+# After these, a "|" opens a closure's parameters rather than being an operator.
+_CLOSURE_BEFORE = frozenset({"(", ",", "=", "move", "{", ";", "return", "=>", ":"})
+# Before a type's name, these make the "{" that follows a declaration or a block, never a literal.
+_NOT_LITERAL_BEFORE = frozenset({"struct", "enum", "impl", "trait", "union", "for", "if", "while", "match", "in",
+                                 "mod", "else", "=>"})
+
+
+class Rust(Language):
+    name = "rust"
+    pygments_alias = "rust"
+    pygments_names = ("Rust",)
+    reserved = words("""as break const continue crate else enum extern false fn for if impl in let loop match
+        mod move mut pub ref return self Self static struct super trait true type unsafe use where while async
+        await dyn""")
+    receivers = frozenset({"self"})
+    naming_style = "snake"
+    defining_words = frozenset({"fn"})
+    binding_before = (re.compile(r"\blet\s+(mut\s+)?$"),)
+    member_access = frozenset({".", "::"})
+    scoped_headers = frozenset({"for", "while", "if"})
+
+    def declarations(self, tokens: list[Token], i: int) -> list[int]:
+        text = tokens[i].text
+        if text == "let" and tokens[i].kind == KEYWORD:
+            return pattern_names(tokens, i + 1, _pattern_end(tokens, i + 1, ("=", ";", ":")))
+        if text == "for" and tokens[i].kind == KEYWORD:
+            return pattern_names(tokens, i + 1, _pattern_end(tokens, i + 1, ("in",)))
+        return []
+
+    def parameters_before(self, tokens: list[Token], brace: int) -> list[int]:
+        """`fn name<T>(pattern: Type, ...) -> R where ... {`: the patterns' names."""
+        j, depth = brace - 1, 0
+        while j >= 0:
+            text = tokens[j].text
+            if text in (")", "]", ">"):
+                depth += 1
+            elif text in ("(", "[", "<"):
+                depth -= 1
+            elif depth <= 0 and text in ("{", "}", ";", "=", "=>"):
+                return []
+            elif text == "fn" and tokens[j].kind == KEYWORD:
+                break
+            elif depth == 0 and text == "|":
+                return _closure_parameters(tokens, j)
+            j -= 1
+        if j < 0:
+            return []
+        k = j + 2  # past `fn name`
+        if k < brace and tokens[k].text == "<":
+            depth = 0
+            while k < brace:
+                depth += {"<": 1, ">": -1}.get(tokens[k].text, 0)
+                k += 1
+                if depth == 0:
+                    break
+        if k >= brace or tokens[k].text != "(":
+            return []
+        closing = matching_close(tokens, k)
+        return [index for group in parameter_groups(tokens, k, closing)
+                for index in pattern_names(tokens, group[0], _group_pattern_end(tokens, group))]
+
+    def occurrence_role(self, tokens: list[Token], j: int, opening: int) -> str:
+        # `Config { timeout: t }` and `Config { timeout }` in literals and patterns.
+        if opening <= 1 or not j or tokens[j - 1].text not in ("{", ",") or j + 1 >= len(tokens):
+            return USE
+        following = tokens[j + 1].text
+        if following not in (":", ",", "}") or not _is_struct_brace(tokens, opening):
+            return USE
+        return KEY if following == ":" else SHORTHAND
+
+    def is_public_function(self, tokens: list[Token], header: range) -> bool:
+        return any(tokens[k].text == "pub" for k in header)
+
+
+def _closure_parameters(tokens: list[Token], closing: int) -> list[int]:
+    """A closure's parameters, `|a, (b, c)| {`, given its second "|"."""
+    opening = closing - 1
+    while opening >= 0 and tokens[opening].text != "|":
+        opening -= 1
+    if opening < 0 or (opening and tokens[opening - 1].text not in _CLOSURE_BEFORE):
+        return []
+    return [k for group in parameter_groups(tokens, opening, closing)
+            for k in pattern_names(tokens, group[0], _group_pattern_end(tokens, group))]
+
+
+def pattern_names(tokens: list[Token], start: int, end: int) -> list[int]:
+    """Names a pattern binds: `(a, mut b)`, `Some(ref x)`, `Point { x, y: py }`, `&v`, `name @ ..`."""
+    found = []
+    for k in range(start, end):
+        token = tokens[k]
+        if token.kind != NAME or token.text == "_" or token.text[:1].isupper():
+            continue  # variants, structs and constants are capitalised
+        before = tokens[k - 1].text if k else ""
+        after = tokens[k + 1].text if k + 1 < len(tokens) else ""
+        if before == "::" or after in ("(", "{", "::", "!", "."):
+            continue
+        if after == ":" and before in ("{", ",") and k + 1 < end:
+            continue  # a field's name in `Point { x: px }`
+        found.append(k)
+    return found
+
+
+def _pattern_end(tokens: list[Token], start: int, stops: tuple[str, ...]) -> int:
+    depth = 0
+    for k in range(start, len(tokens)):
+        text = tokens[k].text
+        if text in ("(", "[", "{"):
+            depth += 1
+        elif text in (")", "]", "}"):
+            depth -= 1
+            if depth < 0:
+                return k
+        elif depth == 0 and text in stops:
+            return k
+    return len(tokens)
+
+
+def _group_pattern_end(tokens: list[Token], group: list[int]) -> int:
+    """End of the pattern in a parameter `pattern: Type`: its top-level ":" (or the group's end)."""
+    depth = 0
+    for k in group:
+        text = tokens[k].text
+        if text in ("(", "[", "{"):
+            depth += 1
+        elif text in (")", "]", "}"):
+            depth -= 1
+        elif text == ":" and depth == 0:
+            return k
+    return group[-1] + 1
+
+
+def _is_struct_brace(tokens: list[Token], opening: int) -> bool:
+    """Whether a "{" follows a struct's name in a literal or pattern (`Point {`, `Self {`)."""
+    name = tokens[opening - 1]
+    if name.kind != NAME and name.text != "Self" or not name.text[:1].isupper():
+        return False
+    k = opening - 2
+    while k > 0 and tokens[k].text == "::" and tokens[k - 1].kind == NAME:
+        k -= 2
+    return tokens[k].text not in _NOT_LITERAL_BEFORE
+
+
+RUST = Rust()

@@ -1,0 +1,72 @@
+"""Go: receivers, grouped and variadic parameters, named results, composite literals; worked by hand
+(no Go toolchain is assumed on the machine)."""
+
+from cognomen.model.corpus import analyse
+from cognomen.model.scopes import LOCAL, PARAMETER
+
+from .snippets import rename, variables
+
+SOURCE = """\
+package irrigation
+
+import (
+\t"io"
+\tv1 "example.com/fernhill/api/v1"
+)
+
+func (s *Scheduler) Plan(r io.Reader, low, high int, zones ...string) (io.Reader, error) {
+\tcount := 0
+\tfor index, zone := range zones {
+\t\tcount += index + len(zone)
+\t}
+\tcfg := v1.Config{Low: low, high: high, Count: count}
+\treturn v1.Wrap(r, cfg), nil
+}
+
+func parse(line string) (value int, err error) {
+\tapply := func(step int) int { return step * 2 }
+\tswitch kind := v1.Kind(line); kind {
+\tcase v1.Dry, v1.Wet:
+\t\tvalue = apply(len(line))
+\t}
+\tif n, ok := lookup(line); ok {
+\t\tvalue += n
+\t}
+\treturn
+}
+"""
+
+
+def test_parameters_worked_by_hand():
+    found = variables(SOURCE, "go")
+    assert found["r"] == (PARAMETER, [(8, 26), (14, 17)])
+    assert found["low"][0] == PARAMETER, "`low, high int`: both names share the type"
+    assert found["zones"] == (PARAMETER, [(8, 54), (10, 27)]), "a variadic parameter is the name alone"
+    assert found["value"][0] == PARAMETER and found["err"][0] == PARAMETER, "named results are variables"
+    assert found["step"] == (PARAMETER, [(18, 16), (18, 39)]), "a function literal's parameter"
+
+
+def test_package_names_and_receivers_are_not_variables():
+    found = variables(SOURCE, "go")
+    # `io.Reader` in the unnamed result list and `v1.Config` are package qualifiers; `s` is the receiver.
+    assert not {"io", "v1", "s", "Reader", "error"} & set(found)
+    assert set(found) == {"r", "low", "high", "zones", "count", "index", "zone", "cfg", "line", "value", "err",
+                          "apply", "step", "kind", "n", "ok"}
+
+
+def test_composite_literal_keys_are_fields():
+    found = variables(SOURCE, "go")
+    assert found["high"] == (PARAMETER, [(8, 44), (13, 35)]), "`high: high`: the key is a field"
+    renamed = rename(SOURCE, "go", {"high": "ceiling", "count": "total"})
+    assert "\tcfg := v1.Config{Low: low, high: ceiling, Count: total}" in renamed
+    assert "func (s *Scheduler) Plan(r io.Reader, low, ceiling int, zones ...string) (io.Reader, error) {" in renamed
+
+
+def test_exported_functions_have_public_parameters():
+    source = analyse(SOURCE, "plan.go", "go")
+    assert {v.name for v in source.variables if v.public_parameter} == {"r", "low", "high", "zones"}
+    assert found_kind(source, "count") == LOCAL
+
+
+def found_kind(source, name):
+    return next(v.kind for v in source.variables if v.name == name)
