@@ -13,7 +13,7 @@ from pathlib import Path
 
 import numpy as np
 
-FORMAT_VERSION = 3
+FORMAT_VERSION = 4
 MANIFEST = "manifest.json"
 CURRENT = "current"
 

@@ -11,7 +11,7 @@ import numpy as np
 
 from .corpus import Corpus
 from .reranking import composed_names
-from .scoring import IGNORED_NAMES, Scorer, allowed_mask, detection_features, name_fit, rank_candidates, token_ids
+from .scoring import IGNORED_NAMES, Scorer, allowed_mask, detection_features, name_fit, rank_in_batches, token_ids
 from .training import TrainSettings, auc, file_local_names, rename, seed_misname, split_files, train
 
 SCORERS = ("model", "context counts", "most frequent")
@@ -25,6 +25,8 @@ class Tally:
     seeded: list[float] = field(default_factory=list)
     ranks: list[int] = field(default_factory=list)  # 0 when the true name is not in the top 10
     reachable: list[bool] = field(default_factory=list)  # the true name is among the names ranked at all
+    clean_over: list[float] = field(default_factory=list)  # oddness less its language's threshold (model only)
+    seeded_over: list[float] = field(default_factory=list)
 
 
 def recovery_at(ranks: list[int], k: int) -> float:
@@ -48,7 +50,7 @@ def threshold_for_budget(clean: np.ndarray, budget: float, lines: int) -> float:
     return float(ordered[allowed]) if allowed < len(ordered) else float(ordered[-1]) - 1e-9
 
 
-def metrics(tally: Tally, lines: int, threshold: float | None) -> dict:
+def metrics(tally: Tally, lines: int, thresholded: bool) -> dict:
     clean, seeded = np.asarray(tally.clean), np.asarray(tally.seeded)
     at_one = threshold_for_budget(clean, 1.0, lines)
     result = {
@@ -61,9 +63,10 @@ def metrics(tally: Tally, lines: int, threshold: float | None) -> dict:
         # The ceiling for recovery: a true name the candidates (and composed names) never hold
         # cannot be suggested, however well the candidates are ordered.
         result["true_name_reachable"] = float(np.mean(tally.reachable))
-    if threshold is not None:
-        result["recall_at_threshold"] = float((seeded > threshold).mean()) if seeded.size else float("nan")
-        result["false_alarms_per_kloc"] = false_alarms_per_kloc(clean, threshold, lines)
+    if thresholded and tally.seeded_over:
+        over_clean, over_seeded = np.asarray(tally.clean_over), np.asarray(tally.seeded_over)
+        result["recall_at_threshold"] = float((over_seeded > 0).mean())
+        result["false_alarms_per_kloc"] = false_alarms_per_kloc(over_clean, 0.0, lines)
     return result
 
 
@@ -78,7 +81,7 @@ def evaluate_corpus(corpus: Corpus, settings: TrainSettings, held_share: float =
     started = time.monotonic()
     trained = train(train_corpus, settings, background=background)
     trained_seconds = time.monotonic() - started
-    scorer = Scorer(trained.tables, trained.detector, trained.threshold, settings.weights, trained.reranker)
+    scorer = Scorer(trained.tables, trained.detector, trained.thresholds, settings.weights, trained.reranker)
     tables = trained.tables
     tallies = {name: Tally() for name in SCORERS}
     rng = random.Random(seed)
@@ -90,38 +93,36 @@ def evaluate_corpus(corpus: Corpus, settings: TrainSettings, held_share: float =
         lines += source.lines
         ids = token_ids(source, tables.vocabulary)
         local_names = file_local_names(source)
-        for variable in source.variables:
-            if variable.name in IGNORED_NAMES:
-                continue
-            ranking = rank_candidates(tables, source, variable, ids, scorer.weights)
+        limit = scorer.threshold_for(source.language)
+        judged = [v for v in source.variables if v.name not in IGNORED_NAMES and not v.dictated]
+        for variable, ranking in zip(judged, rank_in_batches(tables, source, judged, ids, scorer.weights)):
             if ranking is None:
                 continue
             variables += 1
             allowed = allowed_mask(tables, ranking, variable.bound_names, variable.name)
-            _tally(tallies, scorer, ranking, allowed, variable.name, variable, clean=True)
+            _tally(tallies, scorer, ranking, allowed, variable.name, variable, limit, clean=True)
             wrong = seed_misname(source, variable, rng, local_names)
             if wrong is None:
                 continue
             _, renamed = rename(source, variable, wrong)
             allowed = allowed_mask(tables, ranking, renamed.bound_names, wrong)
-            _tally(tallies, scorer, ranking, allowed, wrong, renamed, clean=False, truth=variable.name)
+            _tally(tallies, scorer, ranking, allowed, wrong, renamed, limit, clean=False, truth=variable.name)
     result = {
         "files": {"train": len(train_corpus.files), "held_out": len(held_files)},
         "held_out_lines": lines,
         "variables": variables,
         "seeded": len(tallies["model"].ranks),
-        "threshold": trained.threshold if math.isfinite(trained.threshold) else None,
+        "thresholds": trained.thresholds,
         "train_seconds": round(trained_seconds, 1),
         "calibration": trained.quality,
         "scorers": {},
     }
     for name in SCORERS:
-        threshold = trained.threshold if name == "model" else None
-        result["scorers"][name] = metrics(tallies[name], lines, threshold)
+        result["scorers"][name] = metrics(tallies[name], lines, thresholded=name == "model")
     return result
 
 
-def _tally(tallies: dict[str, Tally], scorer: Scorer, ranking, allowed, name, variable, clean: bool,
+def _tally(tallies: dict[str, Tally], scorer: Scorer, ranking, allowed, name, variable, limit: float, clean: bool,
            truth: str | None = None) -> None:
     tables = scorer.tables
     fit = name_fit(tables, ranking, name, scorer.weights)
@@ -138,6 +139,9 @@ def _tally(tallies: dict[str, Tally], scorer: Scorer, ranking, allowed, name, va
         # A name that cannot be judged is never flagged: it counts as the least odd.
         value = -1e9 if oddness is None else oddness
         (tallies[scorer_name].clean if clean else tallies[scorer_name].seeded).append(value)
+    if math.isfinite(limit):
+        over = -1e9 if model_oddness is None else model_oddness - limit
+        (tallies["model"].clean_over if clean else tallies["model"].seeded_over).append(over)
     if truth is None:
         return
     suggested = [s.name for s in scorer.suggestions(ranking, allowed, 10, variable.bound_names, name)]

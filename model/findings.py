@@ -83,7 +83,7 @@ def analyse_text(text: str, path: str, language: str | None = None,
 def check_source(scorer: Scorer, source: SourceFile, threshold: float | None = None,
                  flagged_only: bool = True, cache: "JudgementCache | None" = None) -> list[Finding]:
     """Every variable whose name does not fit its use (or every judged variable, if asked)."""
-    limit = scorer.threshold if threshold is None else threshold
+    limit = scorer.threshold_for(source.language, threshold)
     findings = []
     variables = [v for v in source.variables if v.name not in IGNORED_NAMES]
     suggest_above = limit if flagged_only else None
@@ -158,7 +158,7 @@ def suggest_at(scorer: Scorer, source: SourceFile, line: int, column: int,
     if variable.name in IGNORED_NAMES:
         return None, f"`{variable.name}` is not a name cognomen judges"
     judgement = scorer.judge(source, variable)
-    limit = scorer.threshold if threshold is None else threshold
+    limit = scorer.threshold_for(source.language, threshold)
     finding = _finding(source, judgement, scorer, limit)
     if not finding.suggestions:
         return finding, "the model knows no names for this language yet"

@@ -11,12 +11,11 @@ from . import bundle as store_files
 from .reranking import Reranker
 from .scoring import Detector, NameTables, Scorer, Weights
 from .training import TrainedModel
-from .usage import USAGES
 from .vocabulary import Vocabulary
 
 _TABLE_ARRAYS = ("input_vectors", "output_vectors", "name_counts", "name_vocab_rows", "name_suggestable", "feature_keys",
                  "feature_totals", "context_indptr", "context_columns", "context_counts", "evidence_rows",
-                 "evidence_path_ids", "evidence_lines", "evidence_vectors", "usage_counts", "usage_variables")
+                 "evidence_path_ids", "evidence_lines", "evidence_vectors")
 
 
 def save(store: Path, trained: TrainedModel, manifest: dict) -> Path:
@@ -34,8 +33,8 @@ def save(store: Path, trained: TrainedModel, manifest: dict) -> Path:
         documents["reranker"] = trained.reranker.to_json()
     arrays = {name: getattr(tables, name) for name in _TABLE_ARRAYS}
     full = dict(manifest, created=time.strftime("%Y-%m-%dT%H:%M:%SZ", time.gmtime()),
-                threshold=trained.threshold if math.isfinite(trained.threshold) else None, quality=trained.quality, counts=trained.counts,
-                seconds=trained.seconds)
+                thresholds={language: value for language, value in trained.thresholds.items() if math.isfinite(value)},
+                languages=trained.languages, quality=trained.quality, counts=trained.counts, seconds=trained.seconds)
     return store_files.write_model(store, full, documents, arrays)
 
 
@@ -59,16 +58,14 @@ def scorer_from_bundle(loaded: store_files.Bundle) -> Scorer:
         _check_shapes(tables)
         detector = Detector.from_json(loaded.documents["detector"]) if "detector" in loaded.documents else None
         reranker = Reranker.from_json(loaded.documents["reranker"]) if "reranker" in loaded.documents else None
-        stored = loaded.manifest.get("threshold")
-        threshold = math.inf if stored is None else float(stored)
+        thresholds = {str(language): float(value) for language, value in loaded.manifest["thresholds"].items()}
         chosen = loaded.manifest.get("settings", {})
         weights = Weights(embedding=float(chosen.get("embedding_weight", 1.0)),
                           lexical=float(chosen.get("lexical_weight", 3.0)),
-                          counts=float(chosen.get("count_weight", 1.0)),
-                          usage=float(chosen.get("usage_weight", 1.0)))
+                          counts=float(chosen.get("count_weight", 1.0)))
     except (KeyError, TypeError, ValueError) as error:
         raise store_files.ModelError(f"model {loaded.model_id} is inconsistent ({error}); retrain it") from None
-    return Scorer(tables, detector, threshold, weights, reranker)
+    return Scorer(tables, detector, thresholds, weights, reranker)
 
 
 def _check_shapes(tables: NameTables) -> None:
@@ -83,8 +80,6 @@ def _check_shapes(tables: NameTables) -> None:
         "context_indptr": (tables.context_indptr.shape, (len(tables.feature_keys) + 1,)),
         "context_counts": (tables.context_counts.shape, tables.context_columns.shape),
         "evidence_vectors": (tables.evidence_vectors.shape, (len(tables.evidence_rows), dimensions)),
-        "usage_counts": (tables.usage_counts.shape, (names, len(USAGES))),
-        "usage_variables": (tables.usage_variables.shape, (names,)),
     }
     for name, (actual, expected) in expectations.items():
         if tuple(actual) != tuple(expected):

@@ -20,7 +20,7 @@ VERBS = frozenset("""get set load make create read parse build compute find fetc
 FUNCTION_WORDS = frozenset("by of for in to from with at on as and or if is has get set".split())
 
 FEATURES = ("count", "embedding", "lexical", "combined", "log_name_count", "composed", "log_rank",
-            "count_gap", "embedding_gap", "subtokens", "verbatim_in_context", "usage")
+            "count_gap", "embedding_gap", "subtokens", "verbatim_in_context")
 
 
 def composed_names(tables: NameTables, ranking: Ranking, bound: frozenset[str], current: str) -> list[str]:
@@ -80,17 +80,17 @@ def shortlist_features(tables: NameTables, ranking: Ranking, allowed: np.ndarray
     top = top[np.argsort(-combined[top], kind="stable")]
     best_count = float(np.max(np.where(allowed, ranking.count_scores, -np.inf))) if finite else 0.0
     best_embedding = float(np.max(np.where(allowed, ranking.embedding_scores, -np.inf))) if finite else 0.0
-    names, rows, features = [], [], []
-    for rank, index in enumerate(top):
-        row = int(ranking.rows[index])
-        name = tables.names[row]
-        count, embedding, lexical = (float(ranking.count_scores[index]), float(ranking.embedding_scores[index]),
-                                     float(ranking.lexical_scores[index]))
-        names.append(name)
-        rows.append(row)
-        usage = float(ranking.usage_scores[index]) if ranking.usage_scores is not None else 0.0
-        features.append(_row(count, embedding, lexical, float(combined[index]), float(tables.name_counts[row]),
-                             False, rank, best_count, best_embedding, name, ranking, usage))
+    table_rows = ranking.rows[top]
+    rows: list[int | None] = table_rows.tolist()
+    names = [tables.names[row] for row in rows]
+    used = ranking.held_counts[top] if ranking.held_counts is not None else tables.name_counts[table_rows]
+    count, embedding = ranking.count_scores[top].astype(np.float64), ranking.embedding_scores[top].astype(np.float64)
+    table_part = np.column_stack([
+        count, embedding, ranking.lexical_scores[top], combined[top], np.log1p(used.astype(np.float64)),
+        np.zeros(len(top)), np.log1p(np.arange(len(top))), count - best_count, embedding - best_embedding,
+        tables.name_parts[table_rows], [1.0 if name in ranking.context_identifiers else 0.0 for name in names],
+    ]).reshape(len(top), len(FEATURES))
+    features = []
     for name in composed_names(tables, ranking, bound, current):
         count, embedding, lexical = _composed_scores(tables, ranking, name, weights)
         total = weights.counts * count + weights.embedding * embedding + weights.lexical * lexical
@@ -98,16 +98,16 @@ def shortlist_features(tables: NameTables, ranking: Ranking, allowed: np.ndarray
         names.append(name)
         rows.append(None)
         features.append(_row(count, embedding, lexical, total, 0.0, True, rank, best_count, best_embedding,
-                             name, ranking, 0.0))
-    matrix = np.array(features, dtype=np.float64).reshape(len(features), len(FEATURES))
+                             name, ranking))
+    matrix = np.vstack([table_part, np.array(features, dtype=np.float64).reshape(len(features), len(FEATURES))])
     return names, rows, matrix
 
 
 def _row(count, embedding, lexical, combined, name_count, composed, rank, best_count, best_embedding, name,
-         ranking, usage) -> list[float]:
+         ranking) -> list[float]:
     return [count, embedding, lexical, combined, math.log1p(name_count), 1.0 if composed else 0.0,
             math.log1p(rank), count - best_count, embedding - best_embedding,
-            float(len(split_identifier(name))), 1.0 if name in ranking.context_identifiers else 0.0, usage]
+            float(len(split_identifier(name))), 1.0 if name in ranking.context_identifiers else 0.0]
 
 
 class Reranker(LinearModel):

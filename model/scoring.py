@@ -12,7 +12,6 @@ from .corpus import SourceFile
 from .languages import get_language
 from .scopes import RECEIVER_NAMES, Variable
 from .tokens import NAME, case_style, fits_style, split_identifier
-from .usage import profile_logs, profile_scores, usage_flags
 from .vocabulary import PAD_TOKEN, SELF_TOKEN, Vocabulary
 
 WINDOW = 3  # neighbours each side for the position-specific counts
@@ -22,7 +21,6 @@ MAX_OCCURRENCES = 24  # occurrences beyond this add little and cost time
 SMOOTHING = 8.0  # Dirichlet prior strength for the position-specific counts
 STOP_SUBTOKENS = frozenset({"self", "cls", "this"})
 IGNORED_NAMES = RECEIVER_NAMES | {"_", "__"}
-MIN_VARIABLES_TO_JUDGE = 1000  # below this a language gets suggestions but never flags
 
 def reserved_words(language: str) -> frozenset[str]:
     """Keywords and builtins of a language: never suggested as a name."""
@@ -54,13 +52,18 @@ class NameTables:
     total_occurrences: float = 1.0
     name_suggestable: np.ndarray | None = None  # (C,) bool: may be offered as a new name
     variables_per_language: dict[str, int] = field(default_factory=dict)
-    usage_counts: np.ndarray | None = None  # (C, len(USAGES)) float32: variables of each name showing each pattern
-    usage_variables: np.ndarray | None = None  # (C,) float32: variables of each name
     positional: bool = True  # context counts keep each neighbour's offset (False: a bag of neighbours)
 
-    def judges(self, language: str) -> bool:
-        """Whether the model saw enough variables of a language to call a name odd in it."""
-        return self.variables_per_language.get(language, 0) >= MIN_VARIABLES_TO_JUDGE
+    def raw_counts(self, language: str):
+        """Context counts (features x this language's candidates) as a sparse matrix, built on first use."""
+        found = self._raw_counts.get(language)
+        if found is None:
+            from scipy.sparse import csr_matrix
+
+            matrix = csr_matrix((np.asarray(self.context_counts, dtype=np.float32), np.asarray(self.context_columns),
+                                 np.asarray(self.context_indptr)), shape=(len(self.feature_keys), len(self.names)))
+            found = self._raw_counts[language] = matrix[:, self.rows_by_language[language]].tocsr()
+        return found
 
     def __post_init__(self) -> None:
         self.row_by_name = {(lang, name): row for row, (lang, name) in enumerate(zip(self.name_languages, self.names))}
@@ -70,6 +73,7 @@ class NameTables:
             self.rows_by_language[language] = np.flatnonzero(languages == language).astype(np.int64)
         self.name_subtokens = [frozenset(split_identifier(n)) - STOP_SUBTOKENS for n in self.names]
         self.subtoken_sizes = np.array([max(len(s), 1) for s in self.name_subtokens], dtype=np.float64)
+        self.name_parts = np.array([len(split_identifier(n)) for n in self.names], dtype=np.float64)
         postings: dict[str, list[int]] = {}
         for row, subtokens in enumerate(self.name_subtokens):
             for subtoken in subtokens:
@@ -91,6 +95,7 @@ class NameTables:
             setattr(self, name, np.array(getattr(self, name)))
         self.bound_masks: dict[tuple[str, frozenset[str]], np.ndarray] = {}  # see allowed_mask
         self.evidence_start = np.searchsorted(self.evidence_rows, np.arange(len(self.names) + 1))
+        self.path_id = {path: number for number, path in enumerate(self.evidence_paths)}
         self.log_counts = np.log(self.name_counts.astype(np.float64) + 1.0)
         self.log_count_smoothed = np.log(self.name_counts.astype(np.float64) + SMOOTHING)
         self.self_id = self.vocabulary.id(SELF_TOKEN)
@@ -107,13 +112,7 @@ class NameTables:
         evidence = csr_matrix((values, np.asarray(self.context_columns), np.asarray(self.context_indptr)),
                               shape=(features, len(self.names)))
         self.context_evidence = {lang: evidence[:, rows].tocsr() for lang, rows in self.rows_by_language.items()}
-        self.usage_profiles: dict[str, tuple[np.ndarray, np.ndarray]] = {}
-        if self.usage_counts is not None and self.usage_variables is not None:
-            counts = np.asarray(self.usage_counts, dtype=np.float64)
-            variables = np.asarray(self.usage_variables, dtype=np.float64)
-            for language, rows in self.rows_by_language.items():
-                if variables[rows].sum() > 0:
-                    self.usage_profiles[language] = profile_logs(counts[rows], variables[rows])
+        self._raw_counts: dict = {}
         self.subtoken_columns: dict[str, dict[str, np.ndarray]] = {}
         for language, rows in self.rows_by_language.items():
             local = {int(row): column for column, row in enumerate(rows)}
@@ -146,7 +145,15 @@ class Ranking:
     embedding_normaliser: float = 0.0  # log-sum-exp of the candidates' embedding logits
     context_identifiers: frozenset[str] = frozenset()
     called_identifiers: frozenset[str] = frozenset()
-    usage_scores: np.ndarray | None = None  # how well each candidate's usage profile fits the variable's
+    known: np.ndarray | None = None  # candidates a model without the held-out file would hold (None: all)
+    held_counts: np.ndarray | None = None  # each candidate's use count without the held-out file
+    own_place: tuple[str, int, int] | None = None  # the variable's file and scope lines: never its own evidence
+
+    def name_count(self, tables: "NameTables", row: int) -> float:
+        """How often the team used a candidate's name (without the held-out file, if any)."""
+        if self.held_counts is None:
+            return float(tables.name_counts[row])
+        return float(self.held_counts[int(np.searchsorted(self.rows, row))])
 
 
 @dataclass
@@ -216,7 +223,6 @@ class Weights:
     embedding: float = 1.0
     lexical: float = 3.0
     counts: float = 1.0
-    usage: float = 1.0
 
 
 def rank_candidates(tables: NameTables, source: SourceFile, variable: Variable, ids: np.ndarray,
@@ -231,14 +237,22 @@ _EMBEDDING_WEIGHTS = (EMBEDDING_WINDOW + 1 - np.abs(_EMBEDDING_OFFSETS)) / EMBED
 
 
 def rank_many(tables: NameTables, source: SourceFile, variables: list[Variable], ids: np.ndarray,
-              weights: Weights | None = None) -> list[Ranking | None]:
-    """rank_candidates for many variables of one file at once (the same numbers, far faster)."""
+              weights: Weights | None = None, holdout=None) -> list[Ranking | None]:
+    """rank_candidates for many variables of one file at once (the same numbers, far faster).
+
+    With a `holdout` (counts.Holdout) the file's own share of the counts is taken out first,
+    so the file is scored as a model trained without it would score it.
+    """
     weights = weights or Weights()
     rows = tables.rows_by_language.get(source.language)
     if rows is None or len(rows) == 0 or not variables:
         return [None] * len(variables)
     positions, owners, counts = occurrence_table(variables)
-    count_scores = _count_scores(tables, source.language, rows, ids, positions, owners, counts, len(variables))
+    count_scores = _count_scores(tables, source.language, rows, ids, positions, owners, counts, len(variables),
+                                 holdout)
+    known, held_counts = None, None
+    if holdout is not None:
+        known, held_counts = holdout.known_rows(tables, rows), holdout.counts(tables, rows)
     unseen_count = -2 * WINDOW * math.log(SMOOTHING)
     vectors = context_vectors(tables.input_vectors, tables.self_id, tables.pad_id, ids, positions, owners,
                               len(variables))
@@ -263,17 +277,22 @@ def rank_many(tables: NameTables, source: SourceFile, variables: list[Variable],
     combined = count_scores * np.float32(weights.counts)
     combined += embedding_scores * np.float32(weights.embedding)
     combined += lexical_scores * np.float32(weights.lexical)
-    profile = tables.usage_profiles.get(source.language)
-    if profile is not None:
-        flags = np.stack([usage_flags(source.tokens, v.occurrences, MAX_OCCURRENCES) for v in variables])
-        usage_scores = profile_scores(flags, *profile)
-        combined += usage_scores * np.float32(weights.usage)
-    else:
-        usage_scores = None
     return [Ranking(source.language, rows, count_scores[i], embedding_scores[i], lexical_scores[i], combined[i],
                     vectors[i], contexts[i], int(counts[i]), unseen_count, float(normalisers[i]),
-                    identifiers[i], called[i], None if usage_scores is None else usage_scores[i])
+                    identifiers[i], called[i], known, held_counts,
+                    (source.path, 0, 10**9) if holdout is not None else
+                    (source.path, variables[i].scope_start, variables[i].scope_end))
             for i in range(len(variables))]
+
+
+def rank_in_batches(tables: NameTables, source: SourceFile, variables: list[Variable], ids: np.ndarray,
+                    weights: Weights | None = None, holdout=None, batch: int = 128) -> list[Ranking | None]:
+    """rank_many over a whole file, a batch at a time: a file's variables times a language's
+    candidates is too large a matrix to hold at once."""
+    rankings: list[Ranking | None] = []
+    for start in range(0, len(variables), batch):
+        rankings.extend(rank_many(tables, source, variables[start:start + batch], ids, weights, holdout))
+    return rankings
 
 
 def occurrence_table(variables: list[Variable]) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
@@ -300,7 +319,7 @@ def _own_keys(variables_positions: np.ndarray, owners: np.ndarray, ids_length: i
 
 
 def _count_scores(tables: NameTables, language: str, rows: np.ndarray, ids: np.ndarray, positions: np.ndarray,
-                  owners: np.ndarray, counts: np.ndarray, variables: int) -> np.ndarray:
+                  owners: np.ndarray, counts: np.ndarray, variables: int, holdout=None) -> np.ndarray:
     from scipy.sparse import csr_matrix
 
     own = _own_keys(positions, owners, len(ids))
@@ -310,15 +329,23 @@ def _count_scores(tables: NameTables, language: str, rows: np.ndarray, ids: np.n
     feature_owners = np.repeat(owners, contexts.shape[1])
     # Scores are float32 throughout: a file's variables times a language's candidates is a large
     # matrix, and these sums need no more precision.
-    base = (tables.log_counts[rows] - 2 * WINDOW * tables.log_count_smoothed[rows]).astype(np.float32)
+    if holdout is not None:
+        base = holdout.base(tables, rows)
+    else:
+        base = (tables.log_counts[rows] - 2 * WINDOW * tables.log_count_smoothed[rows]).astype(np.float32)
     if len(tables.feature_keys) == 0:
         return np.tile(base, (variables, 1))
     found = np.clip(np.searchsorted(tables.feature_keys, keys), 0, len(tables.feature_keys) - 1)
     valid = tables.feature_keys[found] == keys
     weights = (1.0 / counts[feature_owners[valid]]).astype(np.float32)  # the evidence is float32: stay in it
-    features = csr_matrix((weights, (feature_owners[valid], found[valid])),
-                          shape=(variables, len(tables.feature_keys)))
-    scores = (features @ tables.context_evidence[language]).toarray()
+    if holdout is None:
+        features = csr_matrix((weights, (feature_owners[valid], found[valid])),
+                              shape=(variables, len(tables.feature_keys)))
+        scores = (features @ tables.context_evidence[language]).toarray()
+    else:
+        used, columns = np.unique(found[valid], return_inverse=True)
+        features = csr_matrix((weights, (feature_owners[valid], columns.ravel())), shape=(variables, len(used)))
+        scores = (features @ holdout.evidence(tables, language, used)).toarray()
     scores += base
     return scores
 
@@ -359,7 +386,7 @@ def allowed_mask(tables: NameTables, ranking: Ranking, bound_names: frozenset[st
         if len(tables.bound_masks) > 256:
             tables.bound_masks.clear()
         tables.bound_masks[key] = shared
-    allowed = shared.copy()
+    allowed = shared & ranking.known if ranking.known is not None else shared.copy()
     row = tables.row_by_name.get((ranking.language, current))
     if row is not None:
         allowed[int(np.searchsorted(ranking.rows, row))] = False
@@ -377,7 +404,6 @@ class NameFit:
     rank: int
     known: bool
     parts_known: float = 1.0
-    usage: float = 0.0
 
 
 def name_fit(tables: NameTables, ranking: Ranking, name: str, weights: Weights | None = None) -> NameFit | None:
@@ -388,14 +414,15 @@ def name_fit(tables: NameTables, ranking: Ranking, name: str, weights: Weights |
     if not subtokens:
         return None
     lexical = lexical_fit(frozenset(subtokens), ranking.context_subtokens)
+    if row is not None and ranking.known is not None and not ranking.known[int(np.searchsorted(ranking.rows, row))]:
+        row = None  # only the held-out file used this name: a model without it never saw the name
     if row is not None:
         index = int(np.searchsorted(ranking.rows, row))
         count = float(ranking.count_scores[index])
         embedding = float(ranking.embedding_scores[index])
-        usage = float(ranking.usage_scores[index]) if ranking.usage_scores is not None else 0.0
         known, parts_known = True, 1.0
     else:
-        known, usage = False, 0.0  # a name never seen has only the overall usage profile
+        known = False
         part_rows = [tables.row_by_name.get((ranking.language, part)) for part in subtokens]
         indices = np.searchsorted(ranking.rows, [r for r in part_rows if r is not None]).astype(np.int64)
         count = float(ranking.count_scores[indices].mean()) if len(indices) else ranking.unseen_count
@@ -406,15 +433,15 @@ def name_fit(tables: NameTables, ranking: Ranking, name: str, weights: Weights |
             embedding = float(composed @ ranking.context_vector) - ranking.embedding_normaliser
         else:
             embedding = float(ranking.embedding_scores.min())
-    combined = weights.counts * count + weights.embedding * embedding + weights.lexical * lexical + weights.usage * usage
+    combined = weights.counts * count + weights.embedding * embedding + weights.lexical * lexical
     rank = int((ranking.combined > combined).sum())
-    return NameFit(count, embedding, lexical, combined, rank, known, parts_known, usage)
+    return NameFit(count, embedding, lexical, combined, rank, known, parts_known)
 
 
 FEATURE_NAMES = (
     "combined_gap", "count_gap", "embedding_gap", "lexical_current", "lexical_best", "log_rank",
     "log_name_count", "known", "log_occurrences", "is_parameter", "embedding_current", "count_current_gap_top1",
-    "parts_known", "usage_gap", "usage_current",
+    "parts_known",
 )
 
 
@@ -424,7 +451,7 @@ def detection_features(tables: NameTables, ranking: Ranking, allowed: np.ndarray
     combined = np.where(allowed, ranking.combined, -np.inf)
     best = int(np.argmax(combined))
     row = tables.row_by_name.get((ranking.language, name))
-    name_count = float(tables.name_counts[row]) if row is not None else 0.0
+    name_count = ranking.name_count(tables, row) if row is not None else 0.0
     return np.array([
         float(combined[best]) - fit.combined,
         float(np.max(np.where(allowed, ranking.count_scores, -np.inf))) - fit.count,
@@ -439,9 +466,6 @@ def detection_features(tables: NameTables, ranking: Ranking, allowed: np.ndarray
         fit.embedding,
         float(ranking.count_scores[best]) - fit.count,
         fit.parts_known,
-        (float(np.max(np.where(allowed, ranking.usage_scores, -np.inf))) - fit.usage
-         if ranking.usage_scores is not None and allowed.any() else 0.0),
-        fit.usage,
     ], dtype=np.float64)
 
 
@@ -506,13 +530,19 @@ def fit_detector(features: np.ndarray, labels: np.ndarray, l2: float = 1.0, iter
 class Scorer:
     """A loaded model's scoring: judge every variable of a file, suggest names for one."""
 
-    def __init__(self, tables: NameTables, detector: Detector | None, threshold: float,
+    def __init__(self, tables: NameTables, detector: Detector | None, thresholds: dict[str, float],
                  weights: Weights | None = None, reranker=None):
         self.tables = tables
         self.detector = detector
-        self.threshold = threshold
+        self.thresholds = thresholds  # per language; a language without one gets suggestions only
         self.weights = weights or Weights()
         self.reranker = reranker  # reranking.Reranker, or None to rank by the combined score alone
+
+    def threshold_for(self, language: str, override: float | None = None) -> float:
+        """The oddness above which a name is flagged in a language (infinite: never)."""
+        if override is not None:
+            return override
+        return self.thresholds.get(language, math.inf)
 
     def judge(self, source: SourceFile, variable: Variable, ids: np.ndarray | None = None,
               limit: int = 5) -> Judgement:
@@ -528,11 +558,8 @@ class Scorer:
         if ids is None:
             ids = token_ids(source, self.tables.vocabulary)
         judged = [v for v in variables if v.name not in IGNORED_NAMES]
-        rankings: dict[int, Ranking | None] = {}
-        for start in range(0, len(judged), chunk):
-            batch = judged[start:start + chunk]
-            for variable, ranking in zip(batch, rank_many(self.tables, source, batch, ids, self.weights)):
-                rankings[id(variable)] = ranking
+        rankings = {id(variable): ranking for variable, ranking in
+                    zip(judged, rank_in_batches(self.tables, source, judged, ids, self.weights, batch=chunk))}
         return [self._judge_ranked(source, v, rankings.get(id(v)), limit, suggest_above) for v in variables]
 
     def _judge_ranked(self, source: SourceFile, variable: Variable, ranking: Ranking | None,
@@ -542,7 +569,7 @@ class Scorer:
         allowed = allowed_mask(self.tables, ranking, variable.bound_names, variable.name)
         fit = name_fit(self.tables, ranking, variable.name, self.weights)
         oddness, features = None, None
-        if fit is not None and self.tables.judges(source.language):
+        if fit is not None:
             features = detection_features(self.tables, ranking, allowed, fit, variable.name, variable)
             if self.detector is not None:
                 oddness = float(self.detector.oddness(features[None, :])[0])
@@ -557,7 +584,7 @@ class Scorer:
                     bound: frozenset[str] = frozenset(), current: str = "") -> list[Suggestion]:
         """The best names for a variable, best first, each with its evidence."""
         if self.reranker is not None:
-            return [Suggestion(name, share, self.evidence(row, ranking.context_vector) if row is not None else [])
+            return [Suggestion(name, share, self.evidence(row, ranking) if row is not None else [])
                     for name, share, row in self.reranker.rank(self.tables, ranking, allowed, bound, current,
                                                                self.weights, limit)]
         combined = np.where(allowed, ranking.combined, -np.inf)
@@ -570,30 +597,44 @@ class Scorer:
         top = [int(i) for i in candidates[np.argsort(-combined[candidates], kind="stable")] if np.isfinite(combined[i])]
         shifted = combined[top] - _logsumexp(combined[np.isfinite(combined)])
         return [Suggestion(self.tables.names[ranking.rows[i]], float(math.exp(score)),
-                           self.evidence(int(ranking.rows[i]), ranking.context_vector))
+                           self.evidence(int(ranking.rows[i]), ranking))
                 for i, score in zip(top, shifted)]
 
-    def evidence(self, row: int, context_vector: np.ndarray, limit: int = 3) -> list[tuple[str, int]]:
-        """Places in the team's code where a name is used in the most similar contexts."""
+    def evidence(self, row: int, ranking: Ranking, limit: int = 3) -> list[tuple[str, int]]:
+        """Places in the team's code where a name is used in the most similar contexts.
+
+        Never the variable's own place (a rename the model has not yet learned would otherwise
+        back itself), nor anywhere in a file scored as if unseen.
+        """
         tables = self.tables
         start, end = int(tables.evidence_start[row]), int(tables.evidence_start[row + 1])
         if start == end:
             return []
-        similarity = np.asarray(tables.evidence_vectors[start:end]) @ context_vector
-        order = np.argsort(-similarity, kind="stable")[:limit]
-        return [(tables.evidence_paths[int(tables.evidence_path_ids[start + i])], int(tables.evidence_lines[start + i]))
-                for i in order]
+        path_ids = np.asarray(tables.evidence_path_ids[start:end])
+        keep = np.ones(end - start, dtype=bool)
+        if ranking.own_place is not None:
+            own_path, first_line, last_line = ranking.own_place
+            own = tables.path_id.get(own_path)
+            if own is not None:
+                lines = np.asarray(tables.evidence_lines[start:end])
+                keep &= ~((path_ids == own) & (lines >= first_line) & (lines <= last_line))
+        if not keep.any():
+            return []
+        similarity = np.asarray(tables.evidence_vectors[start:end]) @ ranking.context_vector
+        similarity[~keep] = -np.inf
+        order = np.argsort(-similarity, kind="stable")[:min(limit, int(keep.sum()))]
+        return [(tables.evidence_paths[int(path_ids[i])], int(tables.evidence_lines[start + i])) for i in order]
 
-    def is_flagged(self, judgement: Judgement, threshold: float | None = None) -> bool:
-        limit = self.threshold if threshold is None else threshold
+    def is_flagged(self, judgement: Judgement, limit: float) -> bool:
+        """Whether a judgement passes a threshold, with a name to offer instead."""
         return judgement.oddness is not None and judgement.oddness > limit and bool(judgement.suggestions)
 
 
-def dominant_style(names: dict[str, int]) -> str:
+def dominant_style(names: dict[str, float], default: str = "snake") -> str:
     """The case style most local names are written in (single lower-case words count for none)."""
-    votes: dict[str, int] = {}
+    votes: dict[str, float] = {}
     for name, count in names.items():
         style = case_style(name)
         if style in ("snake", "camel", "pascal", "screaming"):
             votes[style] = votes.get(style, 0) + count
-    return max(votes, key=votes.get) if votes else "snake"
+    return max(votes, key=votes.get) if votes else default

@@ -1,30 +1,32 @@
-"""Train embeddings and name tables from a corpus, calibrate the flag threshold, measure quality."""
+"""Train embeddings and name tables from a corpus, calibrate each language's threshold, measure quality.
+
+The name tables are sums over files, so every file of the team can be scored as if the model
+had never seen it (`counts.Holdout`). The detector, the re-ranker and the thresholds learn from
+a seeded sample of the whole repository scored that way; the shipped tables use every file.
+"""
 
 from __future__ import annotations
 
 import hashlib
-import math
 import os
 import random
 import time
-from collections import Counter
 from dataclasses import asdict, dataclass, field
 
 import numpy as np
 
 from .corpus import Corpus, SourceFile
-from .languages import get_language
-from .scopes import Variable
-from .scoring import (IGNORED_NAMES, WINDOW, Detector, NameTables, Scorer, Weights, allowed_mask,
-                      detection_features, dominant_style, fit_detector, name_fit, occurrence_contexts,
-                      rank_candidates, token_ids, context_vectors, occurrence_table)
+from .counts import FileCounts, Holdout, build_tables, count_file
 from .reranking import Reranker, fit_reranker, shortlist_features
-from .usage import USAGES, usage_flags
+from .scopes import Variable
+from .scoring import (IGNORED_NAMES, Detector, NameTables, Weights, allowed_mask, detection_features,
+                      fit_detector, name_fit, rank_in_batches, token_ids)
 from .vocabulary import Vocabulary, build_vocabulary, count_tokens
 
 MAX_SENTENCE = 10_000  # gensim silently truncates longer sentences
-MIN_CALIBRATION_LINES = 3_000  # below this, calibrated thresholds measured far off on new code
-EVIDENCE_PER_NAME = 6
+# A language with less code gets suggestions only: thresholds calibrated on less measured far off on new code.
+MIN_LANGUAGE_LINES = 2_000
+
 
 @dataclass
 class TrainSettings:
@@ -40,15 +42,10 @@ class TrainSettings:
     workers: int = field(default_factory=lambda: os.cpu_count() or 1)
     names_per_language: int = 5_000
     flag_budget: float = 1.0  # flags per 1,000 non-blank lines of clean code
-    calibration_share: float = 0.15
-    calibration_files: int = 200
+    examples_per_language: int = 12_000  # variables scored as if unseen, to learn from and calibrate on
     embedding_weight: float = 1.0
     lexical_weight: float = 3.0
     count_weight: float = 1.0
-    usage_weight: float = 1.0
-    # Each name's usage profile (iterated, called, compared with None, ...): measured, and off,
-    # since the position-specific counts already see these patterns (DEVELOPERS.md, "Quality").
-    use_usage: bool = False
     positional_counts: bool = True  # count each neighbour at its offset; False pools them (a bag)
     use_detector: bool = True
     use_reranker: bool = True
@@ -56,8 +53,7 @@ class TrainSettings:
 
     @property
     def weights(self) -> Weights:
-        return Weights(embedding=self.embedding_weight, lexical=self.lexical_weight, counts=self.count_weight,
-                       usage=self.usage_weight)
+        return Weights(embedding=self.embedding_weight, lexical=self.lexical_weight, counts=self.count_weight)
 
 
 def split_files(paths: list[str], share: float, seed: int) -> tuple[set[str], set[str]]:
@@ -68,6 +64,7 @@ def split_files(paths: list[str], share: float, seed: int) -> tuple[set[str], se
         if int.from_bytes(digest[:4], "big") / 2**32 < share:
             held.add(path)
     return set(paths) - held, held
+
 
 
 def train_embeddings(files: list[SourceFile], vocabulary: Vocabulary, settings: TrainSettings,
@@ -113,128 +110,6 @@ def train_embeddings(files: list[SourceFile], vocabulary: Vocabulary, settings: 
     return inputs, outputs
 
 
-def build_tables(files: list[SourceFile], vocabulary: Vocabulary, inputs: np.ndarray, outputs: np.ndarray,
-                 settings: TrainSettings, background: frozenset[str] = frozenset()) -> NameTables:
-    """Candidate names, position-specific context counts and evidence places from the given files.
-
-    Files whose paths are in `background` count at `settings.background_weight` and never
-    serve as evidence: suggestions point at the team's own code.
-    """
-    per_language: dict[str, Counter] = {}
-    variables_per_language: Counter = Counter()
-    for source in files:
-        counter = per_language.setdefault(source.language, Counter())
-        variables_per_language[source.language] += len(source.variables)
-        weight = settings.background_weight if source.path in background else 1.0
-        for variable in source.variables:
-            if variable.name not in IGNORED_NAMES and variable.name in vocabulary.index:
-                counter[variable.name] += weight * min(len(variable.occurrences), 24)
-    # With a background corpus, candidates are names the team itself writes somewhere: the
-    # background lends its contexts, never its own vocabulary of names.
-    team_words: dict[str, set[str]] | None = None
-    if background:
-        team_words = {}
-        for source in files:
-            if source.path not in background:
-                tokens = source.tokens
-                # Method names (`.get(`, `.items(`, `def get(`) are verbs of other objects, not names
-                # for a variable.
-                defining = get_language(source.language).defining_words | {"."}
-                team_words.setdefault(source.language, set()).update(
-                    t.text for i, t in enumerate(tokens) if t.kind == "name" and not (
-                        0 < i < len(tokens) - 1 and tokens[i + 1].text == "(" and tokens[i - 1].text in defining))
-    names, languages, counts = [], [], []
-    styles = {}
-    for language in sorted(per_language):
-        counter = per_language[language]
-        styles[language] = dominant_style(counter)
-        written = team_words.get(language, set()) if team_words is not None else None
-        ranked = sorted(((name, count) for name, count in counter.items()
-                         if written is None or name in written), key=lambda item: (-item[1], item[0]))
-        for name, count in ranked[:settings.names_per_language]:
-            names.append(name)
-            languages.append(language)
-            counts.append(count)
-    row_by_name = {(lang, name): row for row, (lang, name) in enumerate(zip(languages, names))}
-    suggestable = np.ones(len(names), dtype=bool)
-    vocabulary_size = len(vocabulary)
-    self_id, pad_id = vocabulary.id("<self>"), vocabulary.id("<pad>")
-    key_parts, row_parts, weight_parts = [], [], []
-    usage_counts = np.zeros((len(names), len(USAGES)), dtype=np.float64)
-    usage_variables = np.zeros(len(names), dtype=np.float64)
-    evidence: dict[int, list[tuple[str, int, np.ndarray]]] = {}
-    order = list(range(len(files)))
-    random.Random(settings.seed).shuffle(order)
-    for file_index in order:
-        source = files[file_index]
-        ids = None
-        for variable in source.variables:
-            row = row_by_name.get((source.language, variable.name))
-            if row is None:
-                continue
-            if ids is None:
-                ids = token_ids(source, vocabulary)
-            contexts = occurrence_contexts(ids, variable.occurrences, WINDOW, self_id, pad_id)
-            slots = np.arange(contexts.shape[1], dtype=np.int64) if settings.positional_counts else \
-                np.zeros(contexts.shape[1], dtype=np.int64)
-            keys = (slots[None, :] * vocabulary_size + contexts).ravel()
-            key_parts.append(keys)
-            row_parts.append(np.full(keys.size, row, dtype=np.int64))
-            is_background = source.path in background
-            file_weight = settings.background_weight if is_background else 1.0
-            weight_parts.append(np.full(keys.size, file_weight))
-            if settings.use_usage:
-                usage_counts[row] += file_weight * usage_flags(source.tokens, variable.occurrences)
-                usage_variables[row] += file_weight
-            places = evidence.setdefault(row, [])
-            if not is_background and len(places) < EVIDENCE_PER_NAME and all(p[0] != source.path for p in places):
-                line = source.tokens[variable.occurrences[0]].line
-                positions, owners, _ = occurrence_table([variable])
-                vector = context_vectors(inputs, self_id, pad_id, ids, positions, owners, 1)[0]
-                places.append((source.path, line, vector))
-    if key_parts:
-        keys = np.concatenate(key_parts)
-        rows = np.concatenate(row_parts)
-        combined = keys * max(len(names), 1) + rows
-        unique, inverse = np.unique(combined, return_inverse=True)
-        pair_counts = np.bincount(inverse.ravel(), weights=np.concatenate(weight_parts))
-        pair_keys = unique // max(len(names), 1)
-        pair_rows = (unique % max(len(names), 1)).astype(np.int32)
-        feature_keys, starts = np.unique(pair_keys, return_index=True)
-        indptr = np.append(starts, len(pair_keys)).astype(np.int64)
-        feature_totals = np.add.reduceat(pair_counts, starts).astype(np.float32) if len(starts) else np.zeros(0, np.float32)
-        total = float(pair_counts.sum()) / (2 * WINDOW)
-    else:
-        pair_rows = np.zeros(0, np.int32)
-        pair_counts = np.zeros(0)
-        feature_keys = np.zeros(0, np.int64)
-        indptr = np.zeros(1, np.int64)
-        feature_totals = np.zeros(0, np.float32)
-        total = 1.0
-    evidence_rows, path_ids, lines, vectors = [], [], [], []
-    paths: dict[str, int] = {}
-    for row in sorted(evidence):
-        for path, line, vector in evidence[row]:
-            evidence_rows.append(row)
-            path_ids.append(paths.setdefault(path, len(paths)))
-            lines.append(line)
-            vectors.append(vector)
-    return NameTables(
-        vocabulary=vocabulary, input_vectors=inputs, output_vectors=outputs, names=names,
-        name_languages=languages, name_counts=np.array(counts, dtype=np.float32),
-        name_vocab_rows=np.array([vocabulary.id(n) for n in names], dtype=np.int32), styles=styles,
-        name_suggestable=suggestable,
-        feature_keys=feature_keys.astype(np.int64), feature_totals=feature_totals, context_indptr=indptr,
-        context_columns=pair_rows.astype(np.int32), context_counts=pair_counts.astype(np.float32),
-        evidence_rows=np.array(evidence_rows, dtype=np.int32), evidence_paths=list(paths),
-        evidence_path_ids=np.array(path_ids, dtype=np.int32), evidence_lines=np.array(lines, dtype=np.int32),
-        evidence_vectors=np.array(vectors, dtype=np.float32).reshape(len(vectors), inputs.shape[1]),
-        total_occurrences=max(total, 1.0),
-        variables_per_language=dict(variables_per_language),
-        usage_counts=usage_counts.astype(np.float32), usage_variables=usage_variables.astype(np.float32),
-        positional=settings.positional_counts,
-    )
-
 
 def seed_misname(source: SourceFile, variable: Variable, rng: random.Random,
                  local_names: list[str] | None = None) -> str | None:
@@ -254,71 +129,18 @@ def rename(source: SourceFile, variable: Variable, new_name: str) -> tuple[Sourc
     tokens = list(source.tokens)
     for index in variable.occurrences:
         tokens[index] = type(tokens[index])(new_name, tokens[index].kind, tokens[index].line, tokens[index].column)
-    renamed = Variable(new_name, variable.kind, variable.occurrences, variable.scope_start, variable.scope_end,
-                       variable.function, variable.public_parameter,
-                       (variable.bound_names - {variable.name}) | {new_name}, variable.scope_kind,
-                       variable.shorthand, variable.dictated)
+    renamed = renamed_variable(variable, new_name)
     variables = [renamed if v is variable else v for v in source.variables]
     return SourceFile(source.path, source.language, source.digest, source.lines, tokens, variables), renamed
 
 
-@dataclass
-class Examples:
-    """Detection features for real variables (label 0) and seeded misnames (label 1)."""
+def renamed_variable(variable: Variable, new_name: str) -> Variable:
+    """The variable under another name (its occurrences, masked in every context, stay where they are)."""
+    return Variable(new_name, variable.kind, variable.occurrences, variable.scope_start, variable.scope_end,
+                    variable.function, variable.public_parameter,
+                    (variable.bound_names - {variable.name}) | {new_name}, variable.scope_kind,
+                    variable.shorthand, variable.dictated)
 
-    features: list[np.ndarray] = field(default_factory=list)
-    labels: list[int] = field(default_factory=list)
-    recovered_at: list[int] = field(default_factory=list)  # rank of the true name, per seeded misname
-    lines: int = 0
-    shortlists: list[tuple[np.ndarray, np.ndarray]] = field(default_factory=list)  # re-ranking rows and labels
-    example_files: list[int] = field(default_factory=list)  # which file each example came from
-    file_lines: list[int] = field(default_factory=list)
-
-
-def collect_examples(tables: NameTables, files: list[SourceFile], seed: int, weights: Weights | None = None,
-                     limit: int = 8000) -> Examples:
-    """Real variables and one seeded misname each, scored against tables that never saw these files."""
-    rng = random.Random(seed)
-    examples = Examples()
-    scorer = Scorer(tables, None, 0.0, weights)
-    for source in files:
-        if len(examples.labels) >= limit:
-            break  # whole files only, so that flags per line stay honest
-        examples.lines += source.lines
-        examples.file_lines.append(source.lines)
-        file_number = len(examples.file_lines) - 1
-        ids = token_ids(source, tables.vocabulary)
-        local_names = file_local_names(source)
-        for variable in source.variables:
-            if variable.name in IGNORED_NAMES:
-                continue
-            ranking = rank_candidates(tables, source, variable, ids, weights)
-            if ranking is None:
-                continue
-            fit = name_fit(tables, ranking, variable.name, weights)
-            allowed = allowed_mask(tables, ranking, variable.bound_names, variable.name)
-            if fit is not None:
-                examples.features.append(detection_features(tables, ranking, allowed, fit, variable.name, variable))
-                examples.labels.append(0)
-                examples.example_files.append(file_number)
-            wrong = seed_misname(source, variable, rng, local_names)
-            if wrong is None:
-                continue
-            # Own occurrences are masked in every context, so the ranking is the same after renaming.
-            _, renamed = rename(source, variable, wrong)
-            allowed = allowed_mask(tables, ranking, renamed.bound_names, wrong)
-            suggestions = scorer.suggestions(ranking, allowed, 10)
-            names = [s.name for s in suggestions]
-            examples.recovered_at.append(names.index(variable.name) + 1 if variable.name in names else 0)
-            listed, _, rows = shortlist_features(tables, ranking, allowed, renamed.bound_names, wrong,
-                                                 weights or Weights())
-            examples.shortlists.append((rows, np.array([name == variable.name for name in listed], dtype=float)))
-            fit = name_fit(tables, ranking, wrong, weights)
-            if fit is not None:
-                examples.features.append(detection_features(tables, ranking, allowed, fit, wrong, renamed))
-                examples.labels.append(1)
-                examples.example_files.append(file_number)
-    return examples
 
 
 def calibrate_by_files(oddness_clean: np.ndarray, files: np.ndarray, file_lines: np.ndarray, budget: float,
@@ -352,116 +174,6 @@ def calibrate(oddness_clean: np.ndarray, lines: int, budget: float) -> float:
     return float(ordered[allowed_flags])
 
 
-@dataclass
-class TrainedModel:
-    """Everything a model bundle holds, before it is written."""
-
-    vocabulary: Vocabulary
-    tables: NameTables
-    detector: Detector | None
-    threshold: float
-    quality: dict
-    counts: dict
-    seconds: dict
-    reranker: Reranker | None = None
-
-
-def train(corpus: Corpus, settings: TrainSettings, progress=None, background: Corpus | None = None) -> TrainedModel:
-    """Vocabulary, embeddings, name tables, detector and threshold from a lexed corpus.
-
-    About `calibration_share` of the files are kept out of every learned part and used to fit
-    the detector and calibrate the threshold, so both see names as they will in new code.
-    """
-    started = time.monotonic()
-    background_files = background.files if background else []
-    background_paths = frozenset(f.path for f in background_files)
-    everything = corpus.files + background_files
-    kept, held = split_files([f.path for f in everything], settings.calibration_share, settings.seed)
-    if not kept or not held:
-        kept, held = {f.path for f in everything}, set()
-    files = [f for f in everything if f.path in kept]
-    # Team files first, so that a small team still calibrates on its own code.
-    held_files = sorted((f for f in everything if f.path in held),
-                        key=lambda f: f.path in background_paths)[: settings.calibration_files]
-    counts, kinds = count_tokens(f.tokens for f in files)
-    vocabulary = build_vocabulary(counts, kinds, settings.vocabulary_size, settings.min_count)
-    counted = time.monotonic()
-    inputs, outputs = train_embeddings(files, vocabulary, settings, progress)
-    embedded = time.monotonic()
-    tables = build_tables(files, vocabulary, inputs, outputs, settings, background_paths)
-    detector, threshold, quality = None, 0.0, {}
-    reranker = None
-    if held_files:
-        examples = collect_examples(tables, held_files, settings.seed, settings.weights)
-        if settings.use_reranker:
-            reranker = train_reranker(examples)
-        quality = summarise(examples)
-        labels = np.array(examples.labels)
-        if labels.size and 0 < labels.sum() < labels.size:
-            features = np.array(examples.features)
-            if settings.use_detector and labels.size >= 20:
-                detector = fit_detector(features, labels)
-                oddness = detector.oddness(features)
-            else:
-                oddness = features[:, 0]
-            clean = labels == 0
-            threshold = calibrate_by_files(oddness[clean], np.array(examples.example_files)[clean],
-                                           np.array(examples.file_lines), settings.flag_budget)
-            quality.update(detection_quality(oddness, labels, threshold, examples.lines))
-            quality["calibration_lines"] = examples.lines
-            if examples.lines < MIN_CALIBRATION_LINES:
-                # Too little unseen code to set a threshold that holds: suggest names, flag none.
-                threshold = math.inf
-                quality["recall_at_threshold"] = 0.0
-                quality["false_alarms_per_kloc"] = 0.0
-    finished = time.monotonic()
-    return TrainedModel(
-        vocabulary, tables, detector, threshold, quality,
-        counts={"files": len(corpus.files), "background_files": len(background_files),
-                "training_files": len(files), "lines": corpus.lines,
-                "tokens": corpus.tokens, "vocabulary": len(vocabulary), "names": len(tables.names),
-                "calibration_files": len(held_files)},
-        seconds={"vocabulary": round(counted - started, 2), "embeddings": round(embedded - counted, 2),
-                 "names_and_calibration": round(finished - embedded, 2)},
-        reranker=reranker,
-    )
-
-
-def train_reranker(examples: Examples) -> Reranker | None:
-    """Fit the re-ranker on the seeded misnames' shortlists; recovery is then measured with it."""
-    usable = [(rows, labels) for rows, labels in examples.shortlists if len(rows) and labels.sum() > 0]
-    if len(usable) < 20:
-        return None
-    reranker = fit_reranker(np.vstack([rows for rows, _ in usable]), np.concatenate([labels for _, labels in usable]))
-    ranks = []
-    for rows, labels in examples.shortlists:
-        if not len(rows) or labels.sum() == 0:
-            ranks.append(0)
-            continue
-        scores = reranker.score(rows)
-        truth = int(np.argmax(labels))
-        rank = int((scores > scores[truth]).sum()) + 1
-        ranks.append(rank if rank <= 10 else 0)
-    examples.recovered_at = ranks
-    return reranker
-
-
-def summarise(examples: Examples) -> dict:
-    ranks = np.array(examples.recovered_at)
-    if ranks.size == 0:
-        return {}
-    return {"seeded": int(ranks.size),
-            "recovery_at_1": round(float(((ranks >= 1) & (ranks <= 1)).mean()), 4),
-            "recovery_at_5": round(float(((ranks >= 1) & (ranks <= 5)).mean()), 4)}
-
-
-def detection_quality(oddness: np.ndarray, labels: np.ndarray, threshold: float, lines: int) -> dict:
-    clean = oddness[labels == 0]
-    seeded = oddness[labels == 1]
-    return {"detection_auc": round(auc(seeded, clean), 4),
-            "recall_at_threshold": round(float((seeded > threshold).mean()) if seeded.size else 0.0, 4),
-            "false_alarms_per_kloc": round(float((clean > threshold).sum()) * 1000 / max(lines, 1), 3)}
-
 
 def auc(positives: np.ndarray, negatives: np.ndarray) -> float:
     """Area under the ROC curve: the chance a positive outscores a negative (ties count half)."""
@@ -477,6 +189,265 @@ def auc(positives: np.ndarray, negatives: np.ndarray) -> float:
     ranks[order] = np.repeat(average, counts_)
     positive_ranks = ranks[: len(positives)].sum()
     return float((positive_ranks - len(positives) * (len(positives) + 1) / 2) / (len(positives) * len(negatives)))
+
+
+
+
+@dataclass
+class Examples:
+    """Detection features for real variables (label 0) and seeded misnames (label 1), and the
+    re-ranker's shortlists, from files scored as if unseen."""
+
+    features: list[np.ndarray] = field(default_factory=list)
+    labels: list[int] = field(default_factory=list)
+    example_files: list[int] = field(default_factory=list)  # which sampled file each example came from
+    recovered_at: list[int] = field(default_factory=list)  # rank of the true name, per seeded misname
+    shortlists: list[tuple[np.ndarray, np.ndarray]] = field(default_factory=list)  # re-ranking rows and labels
+    shortlist_files: list[int] = field(default_factory=list)
+    paths: list[str] = field(default_factory=list)  # the sampled files
+    file_lines: list[int] = field(default_factory=list)
+    file_languages: list[str] = field(default_factory=list)
+    team: list[bool] = field(default_factory=list)  # False for a background corpus's files
+
+    @property
+    def lines(self) -> int:
+        return sum(self.file_lines)
+
+
+def sample_files(team: list[SourceFile], background: list[SourceFile], budget: int, seed: int) -> list[SourceFile]:
+    """Files in a seeded order, per language until `budget` variables: the team's first, then a
+    background corpus's to fill what the team's own code leaves."""
+    order = sorted(team, key=lambda f: _draw(seed, f.path)) + sorted(background, key=lambda f: _draw(seed, f.path))
+    taken: dict[str, int] = {}
+    chosen = []
+    for source in order:
+        if taken.get(source.language, 0) >= budget:
+            continue
+        taken[source.language] = taken.get(source.language, 0) + len(source.variables)
+        chosen.append(source)
+    return chosen
+
+
+def _draw(seed: int, path: str) -> int:
+    return int.from_bytes(hashlib.sha256(f"{seed}:{path}".encode()).digest()[:8], "big")
+
+
+def collect_examples(tables: NameTables, files: list[SourceFile], shares: dict[str, FileCounts], seed: int,
+                     weights: Weights | None = None, background: frozenset[str] = frozenset()) -> Examples:
+    """Real variables and one seeded misname each, every file scored without its own share of the counts."""
+    rng = random.Random(seed)
+    examples = Examples()
+    for source in files:
+        file_number = len(examples.paths)
+        examples.paths.append(source.path)
+        examples.file_lines.append(source.lines)
+        examples.file_languages.append(source.language)
+        examples.team.append(source.path not in background)
+        judged = [v for v in source.variables if v.name not in IGNORED_NAMES and not v.dictated]
+        if not judged:
+            continue
+        holdout = Holdout(tables, shares[source.path])
+        ids = token_ids(source, tables.vocabulary)
+        rankings = rank_in_batches(tables, source, judged, ids, weights, holdout)
+        local_names = file_local_names(source)
+        for variable, ranking in zip(judged, rankings):
+            if ranking is None:
+                continue
+            fit = name_fit(tables, ranking, variable.name, weights)
+            allowed = allowed_mask(tables, ranking, variable.bound_names, variable.name)
+            if fit is not None:
+                examples.features.append(detection_features(tables, ranking, allowed, fit, variable.name, variable))
+                examples.labels.append(0)
+                examples.example_files.append(file_number)
+            wrong = seed_misname(source, variable, rng, local_names)
+            if wrong is None:
+                continue
+            # Own occurrences are masked in every context, so the ranking is the same after renaming.
+            renamed = renamed_variable(variable, wrong)
+            allowed = allowed_mask(tables, ranking, renamed.bound_names, wrong)
+            listed, _, rows = shortlist_features(tables, ranking, allowed, renamed.bound_names, wrong,
+                                                 weights or Weights())
+            truth = np.array([name == variable.name for name in listed], dtype=float)
+            examples.shortlists.append((rows, truth))
+            # Without the re-ranker, names are ranked by their combined score.
+            examples.recovered_at.append(_rank_of_truth(rows[:, 3], truth) if len(rows) else 0)
+            examples.shortlist_files.append(file_number)
+            fit = name_fit(tables, ranking, wrong, weights)
+            if fit is not None:
+                examples.features.append(detection_features(tables, ranking, allowed, fit, wrong, renamed))
+                examples.labels.append(1)
+                examples.example_files.append(file_number)
+    return examples
+
+
+@dataclass
+class TrainedModel:
+    """Everything a model bundle holds, before it is written."""
+
+    vocabulary: Vocabulary
+    tables: NameTables
+    detector: Detector | None
+    thresholds: dict[str, float]  # per language; absent: suggestions only
+    quality: dict
+    counts: dict
+    seconds: dict
+    reranker: Reranker | None = None
+    languages: dict = field(default_factory=dict)  # per language: lines, threshold, why there is none
+
+
+def train(corpus: Corpus, settings: TrainSettings, progress=None, background: Corpus | None = None) -> TrainedModel:
+    """Vocabulary, embeddings, name tables, detector, re-ranker and thresholds from a lexed corpus."""
+    started = time.monotonic()
+    background_files = background.files if background else []
+    background_paths = frozenset(f.path for f in background_files)
+    everything = corpus.files + background_files
+    counts, kinds = count_tokens(f.tokens for f in everything)
+    vocabulary = build_vocabulary(counts, kinds, settings.vocabulary_size, settings.min_count)
+    counted = time.monotonic()
+    inputs, outputs = train_embeddings(everything, vocabulary, settings, progress)
+    embedded = time.monotonic()
+    shares = {f.path: count_file(f, vocabulary, settings.background_weight if f.path in background_paths else 1.0,
+                                 settings.positional_counts) for f in everything}
+    sources = {f.path: f for f in everything}
+    tables = build_tables(list(shares.values()), sources, vocabulary, inputs, outputs, settings.names_per_language,
+                          settings.positional_counts, settings.seed, background_paths)
+    sample = sample_files(corpus.files, background_files, settings.examples_per_language, settings.seed)
+    examples = collect_examples(tables, sample, shares, settings.seed, settings.weights, background_paths)
+    calibrated = calibrate_model(examples, corpus, settings)
+    finished = time.monotonic()
+    return TrainedModel(
+        vocabulary, tables, calibrated.detector, calibrated.thresholds, calibrated.quality,
+        counts={"files": len(corpus.files), "background_files": len(background_files),
+                "lines": corpus.lines, "tokens": corpus.tokens, "vocabulary": len(vocabulary),
+                "names": len(tables.names), "calibration_files": len(sample)},
+        seconds={"vocabulary": round(counted - started, 2), "embeddings": round(embedded - counted, 2),
+                 "names_and_calibration": round(finished - embedded, 2)},
+        reranker=calibrated.reranker, languages=calibrated.languages,
+    )
+
+
+@dataclass
+class Calibration:
+    detector: Detector | None
+    reranker: Reranker | None
+    thresholds: dict[str, float]
+    quality: dict
+    languages: dict
+
+
+def calibrate_model(examples: Examples, corpus: Corpus, settings: TrainSettings) -> Calibration:
+    """Fit the detector and re-ranker, set each language's threshold, and measure quality.
+
+    Quality and thresholds use cross-fitted scores: each file's examples are scored by a
+    detector and re-ranker fitted on the other half of the files.
+    """
+    folds = np.array([_draw(settings.seed + 1, path) % 2 for path in examples.paths], dtype=np.int64)
+    reranker, ranks = None, np.array(examples.recovered_at)
+    if settings.use_reranker:
+        reranker, ranks = train_reranker(examples, folds)
+    quality = summarise(ranks)
+    labels = np.array(examples.labels)
+    features = np.array(examples.features).reshape(len(labels), -1)
+    detector, oddness = None, features[:, 0] if len(labels) else np.zeros(0)
+    if settings.use_detector and labels.size >= 20 and 0 < labels.sum() < labels.size:
+        detector = fit_detector(features, labels)
+        oddness = _cross_fitted(features, labels, folds[np.array(examples.example_files, dtype=np.int64)],
+                                detector)
+    languages = language_lines(corpus)
+    thresholds: dict[str, float] = {}
+    report: dict[str, dict] = {}
+    example_files = np.array(examples.example_files, dtype=np.int64)
+    file_lines = np.array(examples.file_lines, dtype=np.int64)
+    file_languages = np.array(examples.file_languages, dtype=object)
+    team = np.array(examples.team, dtype=bool)
+    flagged_clean, clean_lines, recalled, seeded = 0, 0, 0, 0
+    for language, lines in sorted(languages.items()):
+        entry = report[language] = {"lines": lines}
+        if lines < MIN_LANGUAGE_LINES:
+            entry["suggestions_only"] = (f"{lines:,} lines of {language}, under {MIN_LANGUAGE_LINES:,}: too little "
+                                         f"code to set a threshold that holds on new code")
+            continue
+        in_language = (file_languages[example_files] == language) & team[example_files] if len(labels) else \
+            np.zeros(0, bool)
+        clean = in_language & (labels == 0)
+        if not clean.any() or not (in_language & (labels == 1)).any():
+            entry["suggestions_only"] = f"no {language} variables could be scored to calibrate on"
+            continue
+        sampled_files = np.flatnonzero((file_languages == language) & team)
+        numbering = {number: position for position, number in enumerate(sampled_files)}
+        threshold = calibrate_by_files(oddness[clean], np.array([numbering[f] for f in example_files[clean]]),
+                                       file_lines[sampled_files], settings.flag_budget)
+        thresholds[language] = threshold
+        entry["threshold"] = round(threshold, 4)
+        entry["calibration_lines"] = int(file_lines[sampled_files].sum())
+        flagged_clean += int((oddness[clean] > threshold).sum())
+        clean_lines += int(file_lines[sampled_files].sum())
+        positives = in_language & (labels == 1)
+        recalled += int((oddness[positives] > threshold).sum())
+        seeded += int(positives.sum())
+    if len(labels) and 0 < labels.sum() < labels.size:
+        quality["detection_auc"] = round(auc(oddness[labels == 1], oddness[labels == 0]), 4)
+    if seeded:
+        quality["recall_at_threshold"] = round(recalled / seeded, 4)
+        quality["false_alarms_per_kloc"] = round(flagged_clean * 1000 / max(clean_lines, 1), 3)
+    quality["calibration_lines"] = examples.lines
+    return Calibration(detector, reranker, thresholds, quality, report)
+
+
+def language_lines(corpus: Corpus) -> dict[str, int]:
+    """Non-blank lines of the team's code per language."""
+    lines: dict[str, int] = {}
+    for source in corpus.files:
+        lines[source.language] = lines.get(source.language, 0) + source.lines
+    return lines
+
+
+def _cross_fitted(features: np.ndarray, labels: np.ndarray, folds: np.ndarray, whole: Detector) -> np.ndarray:
+    """Each example's oddness from a detector fitted on the other fold (the whole fit where a fold is too small)."""
+    oddness = whole.oddness(features)
+    for fold in (0, 1):
+        train_on, score = folds != fold, folds == fold
+        if score.any() and labels[train_on].size >= 20 and 0 < labels[train_on].sum() < labels[train_on].size:
+            oddness[score] = fit_detector(features[train_on], labels[train_on]).oddness(features[score])
+    return oddness
+
+
+def train_reranker(examples: Examples, folds: np.ndarray) -> tuple[Reranker | None, np.ndarray]:
+    """Fit the re-ranker on the seeded misnames' shortlists; each shortlist is ranked by a re-ranker
+    fitted on the other fold, for the quality figures."""
+    files = folds[np.array(examples.shortlist_files, dtype=np.int64)] if examples.shortlists else np.zeros(0, int)
+    usable = [k for k, (rows, labels) in enumerate(examples.shortlists) if len(rows) and labels.sum() > 0]
+    if len(usable) < 20:
+        return None, np.array(examples.recovered_at)
+
+    def fit(indices):
+        return fit_reranker(np.vstack([examples.shortlists[k][0] for k in indices]),
+                            np.concatenate([examples.shortlists[k][1] for k in indices]))
+
+    whole = fit(usable)
+    per_fold = {}
+    for fold in (0, 1):
+        others = [k for k in usable if files[k] != fold]
+        per_fold[fold] = fit(others) if len(others) >= 20 else whole
+    ranks = [_rank_of_truth(per_fold[int(files[k])].score(rows), labels) if len(rows) else 0
+             for k, (rows, labels) in enumerate(examples.shortlists)]
+    return whole, np.array(ranks)
+
+
+def _rank_of_truth(scores: np.ndarray, truth: np.ndarray) -> int:
+    """1-based rank of the true name among the scored names; 0 when it is absent or below tenth."""
+    if not truth.any():
+        return 0
+    rank = int((scores > scores[int(np.argmax(truth))]).sum()) + 1
+    return rank if rank <= 10 else 0
+
+
+def summarise(ranks: np.ndarray) -> dict:
+    if ranks.size == 0:
+        return {}
+    return {"seeded": int(ranks.size),
+            "recovery_at_1": round(float(((ranks >= 1) & (ranks <= 1)).mean()), 4),
+            "recovery_at_5": round(float(((ranks >= 1) & (ranks <= 5)).mean()), 4)}
 
 
 def settings_dict(settings: TrainSettings) -> dict:

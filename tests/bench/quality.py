@@ -88,7 +88,6 @@ ABLATIONS = {
     "no context counts in ranking": {"count_weight": 0.0},
     "no learned detector (raw gap)": {"use_detector": False},
     "no learned re-ranking": {"use_reranker": False},
-    "with usage patterns": {"use_usage": True},
     "context counts as a bag (no word order)": {"positional_counts": False},
 }
 
