@@ -36,6 +36,7 @@ class Piece:
     tokens: list[Token]
     variables: list[Variable]  # bound names leave out the module's names
     module_names: frozenset[str]
+    facts: dict
     placed: tuple[int, list[Token]] | None = None  # a line offset and the tokens moved there, last used
 
 
@@ -94,8 +95,8 @@ def statement_starts(lines: list[str]) -> list[int]:
     return starts
 
 
-def read_python(text: str, cache: PieceCache | None = None) -> tuple[list[Token], list[Variable]]:
-    """Tokens and variables of Python source, read piece by piece (see the module's docstring)."""
+def read_python(text: str, cache: PieceCache | None = None) -> tuple[list[Token], list[Variable], dict]:
+    """Tokens, variables and facts of Python source, read piece by piece (see the module's docstring)."""
     lines = text.split("\n")
     lines = [line + "\n" for line in lines[:-1]] + ([lines[-1]] if lines[-1] else [])
     starts = statement_starts(lines) + [len(lines)]
@@ -103,6 +104,7 @@ def read_python(text: str, cache: PieceCache | None = None) -> tuple[list[Token]
     tokens: list[Token] = []
     variables: list[Variable] = []
     module_names: set[str] = set()
+    facts: dict[str, dict] = {}
     first = 0
     while first < len(starts) - 1:
         last = first + 1
@@ -119,9 +121,11 @@ def read_python(text: str, cache: PieceCache | None = None) -> tuple[list[Token]
             piece = _fallback_piece("".join(lines[starts[first]:starts[last]]))
         _append(piece, starts[first], tokens, variables)
         module_names.update(piece.module_names)
+        for key, values in piece.facts.items():
+            facts.setdefault(key, {}).update(values)
         first = last
     add_module_names(variables, frozenset(module_names))
-    return tokens, variables
+    return tokens, variables, facts
 
 
 def _piece(text: str, future: str, cache: PieceCache | None) -> Piece | None:
@@ -136,14 +140,14 @@ def _piece(text: str, future: str, cache: PieceCache | None) -> Piece | None:
     piece = None
     if tokens is not None:
         try:
-            found_variables, module_names = python_scopes(text, tokens, future)
+            found_variables, module_names, facts = python_scopes(text, tokens, future)
         except (SyntaxError, ValueError, RecursionError, MemoryError):
-            found_variables = python_token_variables(tokens)
+            found_variables, facts = python_token_variables(tokens), {}
             # Names bound here are unknown; keep every name of the piece off the suggestion lists.
             module_names = frozenset(t.text for t in tokens if t.kind == NAME)
         found_variables = [v for v in found_variables if v.occurrences]
         found_variables.sort(key=lambda v: v.occurrences[0])
-        piece = Piece(tokens, found_variables, module_names)
+        piece = Piece(tokens, found_variables, module_names, facts)
     if cache is not None:
         cache.put(key, piece)
     return piece
@@ -154,7 +158,7 @@ def _fallback_piece(text: str) -> Piece:
     tokens = lex_with_pygments(text, "python", False, False)
     found_variables = [v for v in python_token_variables(tokens) if v.occurrences]
     found_variables.sort(key=lambda v: v.occurrences[0])
-    return Piece(tokens, found_variables, frozenset(t.text for t in tokens if t.kind == NAME))
+    return Piece(tokens, found_variables, frozenset(t.text for t in tokens if t.kind == NAME), {})
 
 
 def _append(piece: Piece, line_offset: int, tokens: list[Token], variables: list[Variable]) -> None:
@@ -171,4 +175,4 @@ def _append(piece: Piece, line_offset: int, tokens: list[Token], variables: list
         variables.append(Variable(v.name, v.kind, [i + token_offset for i in v.occurrences],
                                   v.scope_start + line_offset, v.scope_end + line_offset, v.function,
                                   v.public_parameter, v.bound_names, v.scope_kind,
-                                  tuple(i + token_offset for i in v.shorthand), v.dictated))
+                                  tuple(i + token_offset for i in v.shorthand), v.dictated, v.owner, v.cues))

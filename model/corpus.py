@@ -16,14 +16,14 @@ from itertools import repeat
 from pathlib import Path
 
 from .chunks import PieceCache, read_python
-from .languages import GENERATED_SUFFIXES, language_for_path, lex
+from .languages import GENERATED_SUFFIXES, get_language, language_for_path, lex
 from .languages.python_scopes import python_variables
-from .scopes import Variable, find_variables
+from .scopes import Variable
 from .tokens import Token
 
 MAX_FILE_BYTES = 1 << 20
 MAX_LINE_CHARS = 1000  # a longer line marks a minified or generated file
-CACHE_FORMAT = 5
+CACHE_FORMAT = 6
 
 DEFAULT_EXCLUDES = (
     "node_modules", "vendor", "third_party", "third-party", "build", "dist", "out", "target",
@@ -180,6 +180,7 @@ class SourceFile:
     lines: int
     tokens: list[Token]
     variables: list[Variable]
+    facts: dict = field(default_factory=dict)  # classes, imports and the like, as the language module reads them
 
 
 class SkipFile(Exception):
@@ -221,19 +222,21 @@ def analyse(text: str, path: str, language: str, digest: str = "", pieces: Piece
 
 def _analyse(text: str, path: str, language: str, digest: str, pieces: PieceCache | None) -> SourceFile:
     tokens = variables = None
+    facts: dict = {}
     if language != "python":
         tokens = lex(text, language)
-        variables = find_variables(text, tokens, language)
+        variables, facts = get_language(language).read(text, tokens)
     elif pieces is None:
         tokens = lex(text, language)
         try:
-            variables = python_variables(text, tokens)
+            variables, facts = python_variables(text, tokens)
         except (SyntaxError, ValueError, RecursionError, MemoryError):
             variables = None
     if variables is None:
-        tokens, variables = read_python(text, pieces)
+        tokens, variables, facts = read_python(text, pieces)
+    variables = sorted((v for v in variables if v.occurrences), key=lambda v: v.occurrences[0])
     lines = sum(1 for line in text.splitlines() if line.strip())
-    return SourceFile(path, language, digest, lines, tokens, variables)
+    return SourceFile(path, language, digest, lines, tokens, variables, facts)
 
 
 def _to_record(source: SourceFile) -> dict:
@@ -254,8 +257,9 @@ def _to_record(source: SourceFile) -> dict:
         "bound_common": sorted(common),
         "bound_sets": [sorted(names - common) for names in sets],
         "variables": [[v.name, v.kind, v.occurrences, v.scope_start, v.scope_end, v.function,
-                       v.public_parameter, sets[v.bound_names], v.scope_kind, v.shorthand, v.dictated]
-                      for v in source.variables],
+                       v.public_parameter, sets[v.bound_names], v.scope_kind, v.shorthand, v.dictated, v.owner,
+                       v.cues] for v in source.variables],
+        "facts": source.facts,
     }
 
 
@@ -273,10 +277,10 @@ def _from_record(record: dict, path: str, digest: str) -> SourceFile:
     common = frozenset(record["bound_common"])
     sets = [common.union(names) for names in record["bound_sets"]]
     variables = [Variable(name, kind, occurrences, start, end, function, public, sets[bound], scope_kind,
-                          tuple(shorthand), dictated)
-                 for name, kind, occurrences, start, end, function, public, bound, scope_kind, shorthand, dictated
-                 in record["variables"]]
-    return SourceFile(path, record["language"], digest, record["lines"], tokens, variables)
+                          tuple(shorthand), dictated, owner, tuple(cues))
+                 for name, kind, occurrences, start, end, function, public, bound, scope_kind, shorthand, dictated,
+                 owner, cues in record["variables"]]
+    return SourceFile(path, record["language"], digest, record["lines"], tokens, variables, record["facts"])
 
 
 class TokenCache:

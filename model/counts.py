@@ -14,6 +14,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from .corpus import SourceFile
+from .flow import FileFlow
 from .languages import get_language
 from .scoring import (_OFFSETS, IGNORED_NAMES, SMOOTHING, WINDOW, NameTables, _own_keys, _window, context_vectors,
                       dominant_style, occurrence_table, token_ids)
@@ -188,10 +189,18 @@ def _evidence(counts: list[FileCounts], sources: dict[str, SourceFile], row_by_n
 
 
 class Holdout:
-    """A file's own share of the tables, subtracted so that the file is scored as if never seen."""
+    """A file's own share of the tables, subtracted so that the file is scored as if never seen.
 
-    def __init__(self, tables: NameTables, share: FileCounts):
+    `whole_file` keeps every place in the file out of the evidence (training scores files as
+    if unseen); otherwise only the variable's own scope is left out.
+    """
+
+    def __init__(self, tables: NameTables, share: FileCounts, flow: FileFlow | None = None, whole_file: bool = True,
+                 unseen: frozenset[str] = frozenset()):
         self.path = share.path
+        self.flow = flow
+        self.whole_file = whole_file
+        self.unseen = unseen  # tokens in the vocabulary only because of this file
         rows = _rows(tables.row_by_name, share)
         known = rows >= 0
         self.name_counts = np.zeros(len(tables.names))

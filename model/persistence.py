@@ -8,6 +8,7 @@ from pathlib import Path
 
 
 from . import bundle as store_files
+from .flow import FlowIndex
 from .reranking import Reranker
 from .scoring import Detector, NameTables, Scorer, Weights
 from .training import TrainedModel
@@ -27,6 +28,7 @@ def save(store: Path, trained: TrainedModel, manifest: dict) -> Path:
                   "evidence_paths": tables.evidence_paths, "total_occurrences": tables.total_occurrences,
                   "variables_per_language": tables.variables_per_language, "positional": tables.positional},
     }
+    documents["flow"] = tables.flow.to_json()
     if trained.detector is not None:
         documents["detector"] = trained.detector.to_json()
     if trained.reranker is not None:
@@ -53,6 +55,7 @@ def scorer_from_bundle(loaded: store_files.Bundle) -> Scorer:
             total_occurrences=float(names["total_occurrences"]),
             variables_per_language={k: int(v) for k, v in names.get("variables_per_language", {}).items()},
             positional=bool(names.get("positional", True)),
+            flow=FlowIndex.from_json(loaded.documents["flow"]),
             **{name: arrays[name] for name in _TABLE_ARRAYS},
         )
         _check_shapes(tables)
@@ -60,7 +63,7 @@ def scorer_from_bundle(loaded: store_files.Bundle) -> Scorer:
         reranker = Reranker.from_json(loaded.documents["reranker"]) if "reranker" in loaded.documents else None
         thresholds = {str(language): float(value) for language, value in loaded.manifest["thresholds"].items()}
         chosen = loaded.manifest.get("settings", {})
-        weights = Weights(embedding=float(chosen.get("embedding_weight", 1.0)),
+        weights = Weights(embedding=float(chosen.get("embedding_weight", 0.0)),
                           lexical=float(chosen.get("lexical_weight", 3.0)),
                           counts=float(chosen.get("count_weight", 1.0)))
     except (KeyError, TypeError, ValueError) as error:

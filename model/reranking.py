@@ -1,4 +1,4 @@
-"""Learned re-ranking of a shortlist of names, including names composed from the context's sub-tokens."""
+"""Learned re-ranking of a shortlist: the best names of the table and the names the variable's cues put forward."""
 
 from __future__ import annotations
 
@@ -6,61 +6,40 @@ import math
 
 import numpy as np
 
+from .flow import FEATURES as FLOW_FEATURES
 from .scoring import IGNORED_NAMES, LinearModel, NameTables, Ranking, Weights, fit_detector, reserved_words
-from .tokens import join_subtokens, split_identifier
+from .tokens import split_identifier
 
 SHORTLIST = 30
-MAX_COMPOSED = 12
-# Leading words of function names that describe the action, not the thing returned.
-VERBS = frozenset("""get set load make create read parse build compute find fetch new to is has
-    open init calc calculate extract format render collect resolve lookup gen generate add
-    update apply convert normalize normalise""".split())
+MAX_FROM_FLOW = 20
 
-# A name does not start with a preposition or consist of action words only.
-FUNCTION_WORDS = frozenset("by of for in to from with at on as and or if is has get set".split())
-
-FEATURES = ("count", "embedding", "lexical", "combined", "log_name_count", "composed", "log_rank",
-            "count_gap", "embedding_gap", "subtokens", "verbatim_in_context")
+TABLE_FEATURES = ("count", "embedding", "lexical", "combined", "log_name_count", "not_in_table", "log_rank",
+                  "count_gap", "embedding_gap", "subtokens", "verbatim_in_context")
+FEATURES = TABLE_FEATURES + FLOW_FEATURES
 
 
-def composed_names(tables: NameTables, ranking: Ranking, bound: frozenset[str], current: str) -> list[str]:
-    """Names built from identifiers near the variable's uses (`load_user_profile` gives
-    `user_profile` and `profile`) that the candidate table does not already hold."""
-    style = tables.styles.get(ranking.language, "snake")
+def flow_names(tables: NameTables, ranking: Ranking, bound: frozenset[str], current: str) -> list[str]:
+    """Names the variable's cues put forward that may replace the current one."""
+    if ranking.flow is None:
+        return []
     reserved = reserved_words(ranking.language)
-    found: list[str] = []
-    for identifier in sorted(ranking.context_identifiers):
-        parts = [p for p in split_identifier(identifier) if p.isalpha()]
-        if not parts:
+    found = []
+    for name in ranking.flow.candidates():
+        if name == current or name in bound or name in reserved or name in IGNORED_NAMES or name.startswith("_"):
             continue
-        # A called function's own name describes an action; the thing it returns is in its tail.
-        options = [] if identifier in ranking.called_identifiers else [parts]
-        if parts[0] in VERBS and len(parts) > 1:
-            options.append(parts[1:])
-        if len(parts) > 2:
-            options.append(parts[-2:])
-        if len(parts) > 1:
-            options.append(parts[-1:])
-        for option in options:
-            if option[0] in FUNCTION_WORDS or all(part in VERBS for part in option):
-                continue
-            name = join_subtokens(option, style)
-            if (len(name) < 2 or name == current or name in bound or name in reserved or name in IGNORED_NAMES
-                    or (ranking.language, name) in tables.row_by_name or name in found):
-                continue
-            found.append(name)
-            if len(found) >= MAX_COMPOSED:
-                return found
+        found.append(name)
+        if len(found) >= MAX_FROM_FLOW:
+            break
     return found
 
 
-def _composed_scores(tables: NameTables, ranking: Ranking, name: str, weights: Weights) -> tuple[float, float, float]:
+def _unseen_scores(tables: NameTables, ranking: Ranking, name: str, weights: Weights) -> tuple[float, float, float]:
     parts = split_identifier(name)
     rows = [tables.row_by_name.get((ranking.language, part)) for part in parts]
     indices = np.searchsorted(ranking.rows, [r for r in rows if r is not None]).astype(np.int64)
     count = float(ranking.count_scores[indices].mean()) if len(indices) else ranking.unseen_count
     vocabulary_rows = [tables.vocabulary.index[p] for p in parts if p in tables.vocabulary.index]
-    if vocabulary_rows:
+    if vocabulary_rows and weights.embedding:
         vector = np.asarray(tables.output_vectors[vocabulary_rows], dtype=np.float32).mean(axis=0)
         embedding = float(vector @ ranking.context_vector) - ranking.embedding_normaliser
     else:
@@ -71,7 +50,7 @@ def _composed_scores(tables: NameTables, ranking: Ranking, name: str, weights: W
 
 def shortlist_features(tables: NameTables, ranking: Ranking, allowed: np.ndarray, bound: frozenset[str],
                        current: str, weights: Weights) -> tuple[list[str], list[int | None], np.ndarray]:
-    """The shortlist (best table names plus composed names) and each one's re-ranking features."""
+    """The shortlist (the table's best names and the names the cues put forward) and each one's features."""
     combined = np.where(allowed, ranking.combined, -np.inf)
     finite = int(np.isfinite(combined).sum())
     take = min(SHORTLIST, finite)
@@ -89,23 +68,39 @@ def shortlist_features(tables: NameTables, ranking: Ranking, allowed: np.ndarray
         count, embedding, ranking.lexical_scores[top], combined[top], np.log1p(used.astype(np.float64)),
         np.zeros(len(top)), np.log1p(np.arange(len(top))), count - best_count, embedding - best_embedding,
         tables.name_parts[table_rows], [1.0 if name in ranking.context_identifiers else 0.0 for name in names],
-    ]).reshape(len(top), len(FEATURES))
+    ]).reshape(len(top), len(TABLE_FEATURES))
     features = []
-    for name in composed_names(tables, ranking, bound, current):
-        count, embedding, lexical = _composed_scores(tables, ranking, name, weights)
-        total = weights.counts * count + weights.embedding * embedding + weights.lexical * lexical
+    listed = set(names)
+    for name in flow_names(tables, ranking, bound, current):
+        if name in listed:
+            continue
+        row = tables.row_by_name.get((ranking.language, name))
+        if row is not None:
+            index = int(np.searchsorted(ranking.rows, row))
+            if not allowed[index]:
+                continue
+            count, embedding, lexical = (float(ranking.count_scores[index]), float(ranking.embedding_scores[index]),
+                                         float(ranking.lexical_scores[index]))
+            total, name_count = float(ranking.combined[index]), ranking.name_count(tables, row)
+        else:
+            count, embedding, lexical = _unseen_scores(tables, ranking, name, weights)
+            total = weights.counts * count + weights.embedding * embedding + weights.lexical * lexical
+            name_count = 0.0
         rank = int((combined > total).sum())
         names.append(name)
-        rows.append(None)
-        features.append(_row(count, embedding, lexical, total, 0.0, True, rank, best_count, best_embedding,
-                             name, ranking))
-    matrix = np.vstack([table_part, np.array(features, dtype=np.float64).reshape(len(features), len(FEATURES))])
-    return names, rows, matrix
+        rows.append(row)
+        features.append(_row(count, embedding, lexical, total, name_count, row is None, rank, best_count,
+                             best_embedding, name, ranking))
+    matrix = np.vstack([table_part, np.array(features, dtype=np.float64).reshape(len(features), len(TABLE_FEATURES))])
+    flow = ranking.flow
+    flow_part = np.array([flow.features(name) if flow is not None else [0.0] * len(FLOW_FEATURES) for name in names],
+                         dtype=np.float64).reshape(len(names), len(FLOW_FEATURES))
+    return names, rows, np.hstack([matrix, flow_part])
 
 
-def _row(count, embedding, lexical, combined, name_count, composed, rank, best_count, best_embedding, name,
+def _row(count, embedding, lexical, combined, name_count, not_in_table, rank, best_count, best_embedding, name,
          ranking) -> list[float]:
-    return [count, embedding, lexical, combined, math.log1p(name_count), 1.0 if composed else 0.0,
+    return [count, embedding, lexical, combined, math.log1p(name_count), 1.0 if not_in_table else 0.0,
             math.log1p(rank), count - best_count, embedding - best_embedding,
             float(len(split_identifier(name))), 1.0 if name in ranking.context_identifiers else 0.0]
 

@@ -31,13 +31,15 @@ class Variable:
     scope_kind: str = "function"  # function, lambda, comprehension, or block (token-based languages)
     shorthand: tuple[int, ...] = ()  # occurrences that are also a property's name (`{timeout}`)
     dictated: str = ""  # why the name is not the team's to choose (an override's parameter...), or ""
+    owner: str = ""  # the class whose method this is a parameter of
+    cues: tuple[str, ...] = ()  # where its values come from and go (see flow.py), "kind:word"
 
 
 def find_variables(text: str, tokens: list[Token], language: str) -> list[Variable]:
     """All function-local variables and parameters of a file, in order of their binding."""
     from .languages import get_language
 
-    variables = [v for v in get_language(language).find_variables(text, tokens) if v.occurrences]
+    variables = [v for v in get_language(language).read(text, tokens)[0] if v.occurrences]
     variables.sort(key=lambda v: v.occurrences[0])
     return variables
 

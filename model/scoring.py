@@ -9,6 +9,7 @@ from typing import ClassVar
 import numpy as np
 
 from .corpus import SourceFile
+from .flow import Flow, FlowIndex, FlowView, file_flow, variable_flow
 from .languages import get_language
 from .scopes import RECEIVER_NAMES, Variable
 from .tokens import NAME, case_style, fits_style, split_identifier
@@ -53,6 +54,7 @@ class NameTables:
     name_suggestable: np.ndarray | None = None  # (C,) bool: may be offered as a new name
     variables_per_language: dict[str, int] = field(default_factory=dict)
     positional: bool = True  # context counts keep each neighbour's offset (False: a bag of neighbours)
+    flow: FlowIndex = field(default_factory=FlowIndex)  # names the team gives at each cue (flow.py)
 
     def raw_counts(self, language: str):
         """Context counts (features x this language's candidates) as a sparse matrix, built on first use."""
@@ -148,6 +150,8 @@ class Ranking:
     known: np.ndarray | None = None  # candidates a model without the held-out file would hold (None: all)
     held_counts: np.ndarray | None = None  # each candidate's use count without the held-out file
     own_place: tuple[str, int, int] | None = None  # the variable's file and scope lines: never its own evidence
+    flow: Flow | None = None  # what the variable's cues say about its name
+    unseen: frozenset[str] = frozenset()  # tokens a model without the held-out file would not know
 
     def name_count(self, tables: "NameTables", row: int) -> float:
         """How often the team used a candidate's name (without the held-out file, if any)."""
@@ -220,7 +224,7 @@ def lexical_fit(subtokens: frozenset[str], context: frozenset[str]) -> float:
 class Weights:
     """How the three scores combine into one ranking."""
 
-    embedding: float = 1.0
+    embedding: float = 0.0
     lexical: float = 3.0
     counts: float = 1.0
 
@@ -256,10 +260,16 @@ def rank_many(tables: NameTables, source: SourceFile, variables: list[Variable],
     unseen_count = -2 * WINDOW * math.log(SMOOTHING)
     vectors = context_vectors(tables.input_vectors, tables.self_id, tables.pad_id, ids, positions, owners,
                               len(variables))
-    logits = vectors @ tables._output_by_language[source.language].T
-    top = logits.max(axis=1, keepdims=True)
-    normalisers = (top + np.log(np.exp(logits - top).sum(axis=1, keepdims=True))).ravel()
-    embedding_scores = logits - normalisers[:, None]
+    if weights.embedding:
+        logits = vectors @ tables._output_by_language[source.language].T
+        top = logits.max(axis=1, keepdims=True)
+        normalisers = (top + np.log(np.exp(logits - top).sum(axis=1, keepdims=True))).ravel()
+        embedding_scores = logits - normalisers[:, None]
+    else:
+        # Measured: in-sample embeddings make a file's own names fit too well when it is scored as
+        # if unseen, and the thresholds then flag ten times the budget on new code.
+        normalisers = np.zeros(len(variables), dtype=np.float32)
+        embedding_scores = np.zeros((len(variables), len(rows)), dtype=np.float32)
     lexical_scores = np.zeros((len(variables), len(rows)), dtype=np.float32)
     contexts, identifiers, called = [], [], []
     postings = tables.subtoken_columns[source.language]
@@ -277,12 +287,28 @@ def rank_many(tables: NameTables, source: SourceFile, variables: list[Variable],
     combined = count_scores * np.float32(weights.counts)
     combined += embedding_scores * np.float32(weights.embedding)
     combined += lexical_scores * np.float32(weights.lexical)
+    current = file_flow(source.variables)
+    view = FlowView(tables.flow, holdout.flow if holdout is not None else None, current)
+    style = tables.styles.get(source.language, get_language(source.language).naming_style)
+    reserved = reserved_words(source.language)
+    flows = [variable_flow(v, view, style, _name_filter(v, reserved), 1.0) if v.cues else None for v in variables]
     return [Ranking(source.language, rows, count_scores[i], embedding_scores[i], lexical_scores[i], combined[i],
                     vectors[i], contexts[i], int(counts[i]), unseen_count, float(normalisers[i]),
                     identifiers[i], called[i], known, held_counts,
-                    (source.path, 0, 10**9) if holdout is not None else
-                    (source.path, variables[i].scope_start, variables[i].scope_end))
+                    (source.path, 0, 10**9) if holdout is not None and holdout.whole_file else
+                    (source.path, variables[i].scope_start, variables[i].scope_end), flows[i],
+                    holdout.unseen if holdout is not None else frozenset())
             for i in range(len(variables))]
+
+
+def _name_filter(variable: Variable, reserved: frozenset[str]):
+    """Names a variable's cues may put forward: its own, or any not bound in its scope nor reserved."""
+    bound = variable.bound_names
+
+    def allowed(name: str) -> bool:
+        return name == variable.name or (name not in bound and name not in reserved and name not in IGNORED_NAMES
+                                         and not name.startswith("_"))
+    return allowed
 
 
 def rank_in_batches(tables: NameTables, source: SourceFile, variables: list[Variable], ids: np.ndarray,
@@ -426,9 +452,10 @@ def name_fit(tables: NameTables, ranking: Ranking, name: str, weights: Weights |
         part_rows = [tables.row_by_name.get((ranking.language, part)) for part in subtokens]
         indices = np.searchsorted(ranking.rows, [r for r in part_rows if r is not None]).astype(np.int64)
         count = float(ranking.count_scores[indices].mean()) if len(indices) else ranking.unseen_count
-        vocabulary_rows = [tables.vocabulary.index[p] for p in subtokens if p in tables.vocabulary.index]
+        vocabulary_rows = [tables.vocabulary.index[p] for p in subtokens
+                           if p in tables.vocabulary.index and p not in ranking.unseen]
         parts_known = len(vocabulary_rows) / len(subtokens)
-        if vocabulary_rows:
+        if vocabulary_rows and weights.embedding:
             composed = np.asarray(tables.output_vectors[vocabulary_rows], dtype=np.float32).mean(axis=0)
             embedding = float(composed @ ranking.context_vector) - ranking.embedding_normaliser
         else:
@@ -441,7 +468,8 @@ def name_fit(tables: NameTables, ranking: Ranking, name: str, weights: Weights |
 FEATURE_NAMES = (
     "combined_gap", "count_gap", "embedding_gap", "lexical_current", "lexical_best", "log_rank",
     "log_name_count", "known", "log_occurrences", "is_parameter", "embedding_current", "count_current_gap_top1",
-    "parts_known",
+    "parts_known", "flow_share_current", "flow_strong_current", "flow_weak_current", "flow_partial_current",
+    "flow_best_other_share", "flow_peak_share", "flow_peak_agrees", "flow_cues",
 )
 
 
@@ -466,7 +494,18 @@ def detection_features(tables: NameTables, ranking: Ranking, allowed: np.ndarray
         fit.embedding,
         float(ranking.count_scores[best]) - fit.count,
         fit.parts_known,
+        *_flow_detection(ranking.flow, name),
     ], dtype=np.float64)
+
+
+def _flow_detection(flow: Flow | None, name: str) -> list[float]:
+    """How the variable's cues back its current name against any other name."""
+    if flow is None:
+        return [0.0] * 8
+    share, _, strong, weak, partial, cues = flow.features(name)
+    peak_name, peak_share = flow.peak()
+    return [share, strong, weak, partial, flow.best_other_share(name), peak_share, 1.0 if peak_name == name else 0.0,
+            cues]
 
 
 @dataclass

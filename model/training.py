@@ -11,13 +11,15 @@ import hashlib
 import os
 import random
 import time
+from collections import Counter
 from dataclasses import asdict, dataclass, field
 
 import numpy as np
 
 from .corpus import Corpus, SourceFile
 from .counts import FileCounts, Holdout, build_tables, count_file
-from .reranking import Reranker, fit_reranker, shortlist_features
+from .flow import build_index, file_flow
+from .reranking import TABLE_FEATURES, Reranker, fit_reranker, shortlist_features
 from .scopes import Variable
 from .scoring import (IGNORED_NAMES, Detector, NameTables, Weights, allowed_mask, detection_features,
                       fit_detector, name_fit, rank_in_batches, token_ids)
@@ -43,12 +45,13 @@ class TrainSettings:
     names_per_language: int = 5_000
     flag_budget: float = 1.0  # flags per 1,000 non-blank lines of clean code
     examples_per_language: int = 12_000  # variables scored as if unseen, to learn from and calibrate on
-    embedding_weight: float = 1.0
+    embedding_weight: float = 0.0  # measured: the embeddings leak into scores of files the model has seen
     lexical_weight: float = 3.0
     count_weight: float = 1.0
     positional_counts: bool = True  # count each neighbour at its offset; False pools them (a bag)
     use_detector: bool = True
     use_reranker: bool = True
+    use_flow: bool = True  # name flow: where values come from and go (flow.py)
     background_weight: float = 0.3  # how much a background corpus file counts against a team file
 
     @property
@@ -139,7 +142,7 @@ def renamed_variable(variable: Variable, new_name: str) -> Variable:
     return Variable(new_name, variable.kind, variable.occurrences, variable.scope_start, variable.scope_end,
                     variable.function, variable.public_parameter,
                     (variable.bound_names - {variable.name}) | {new_name}, variable.scope_kind,
-                    variable.shorthand, variable.dictated)
+                    variable.shorthand, variable.dictated, variable.owner, variable.cues)
 
 
 
@@ -232,8 +235,17 @@ def _draw(seed: int, path: str) -> int:
     return int.from_bytes(hashlib.sha256(f"{seed}:{path}".encode()).digest()[:8], "big")
 
 
+def unseen_tokens(source: SourceFile, vocabulary: Vocabulary, min_count: int) -> frozenset[str]:
+    """Tokens of the vocabulary that would fall under its minimum count without this file."""
+    counts = Counter(t.text for t in source.tokens)
+    index = vocabulary.index
+    return frozenset(text for text, count in counts.items()
+                     if text in index and vocabulary.counts[index[text]] - count < min_count)
+
+
 def collect_examples(tables: NameTables, files: list[SourceFile], shares: dict[str, FileCounts], seed: int,
-                     weights: Weights | None = None, background: frozenset[str] = frozenset()) -> Examples:
+                     weights: Weights | None = None, background: frozenset[str] = frozenset(),
+                     min_count: int = 2) -> Examples:
     """Real variables and one seeded misname each, every file scored without its own share of the counts."""
     rng = random.Random(seed)
     examples = Examples()
@@ -246,8 +258,13 @@ def collect_examples(tables: NameTables, files: list[SourceFile], shares: dict[s
         judged = [v for v in source.variables if v.name not in IGNORED_NAMES and not v.dictated]
         if not judged:
             continue
-        holdout = Holdout(tables, shares[source.path])
+        unseen = unseen_tokens(source, tables.vocabulary, min_count)
+        holdout = Holdout(tables, shares[source.path], file_flow(source.variables, shares[source.path].weight),
+                          unseen=unseen)
         ids = token_ids(source, tables.vocabulary)
+        if unseen:
+            # Tokens only this file brought into the vocabulary are unknown to a model without it.
+            ids[np.isin(ids, np.array([tables.vocabulary.index[t] for t in unseen]))] = 0
         rankings = rank_in_batches(tables, source, judged, ids, weights, holdout)
         local_names = file_local_names(source)
         for variable, ranking in zip(judged, rankings):
@@ -311,8 +328,12 @@ def train(corpus: Corpus, settings: TrainSettings, progress=None, background: Co
     sources = {f.path: f for f in everything}
     tables = build_tables(list(shares.values()), sources, vocabulary, inputs, outputs, settings.names_per_language,
                           settings.positional_counts, settings.seed, background_paths)
+    if settings.use_flow:
+        tables.flow = build_index(everything, background_paths, team_subtokens(corpus.files),
+                                  settings.background_weight)
     sample = sample_files(corpus.files, background_files, settings.examples_per_language, settings.seed)
-    examples = collect_examples(tables, sample, shares, settings.seed, settings.weights, background_paths)
+    examples = collect_examples(tables, sample, shares, settings.seed, settings.weights, background_paths,
+                                settings.min_count)
     calibrated = calibrate_model(examples, corpus, settings)
     finished = time.monotonic()
     return TrainedModel(
@@ -394,6 +415,14 @@ def calibrate_model(examples: Examples, corpus: Corpus, settings: TrainSettings)
     return Calibration(detector, reranker, thresholds, quality, report)
 
 
+def team_subtokens(files: list[SourceFile]) -> frozenset[str]:
+    """Every sub-token of the team's identifiers: what a string key must be made of to count."""
+    from .tokens import split_identifier
+
+    identifiers = {t.text for source in files for t in source.tokens if t.kind == "name"}
+    return frozenset(part for identifier in identifiers for part in split_identifier(identifier))
+
+
 def language_lines(corpus: Corpus) -> dict[str, int]:
     """Non-blank lines of the team's code per language."""
     lines: dict[str, int] = {}
@@ -421,8 +450,9 @@ def train_reranker(examples: Examples, folds: np.ndarray) -> tuple[Reranker | No
         return None, np.array(examples.recovered_at)
 
     def fit(indices):
-        return fit_reranker(np.vstack([examples.shortlists[k][0] for k in indices]),
-                            np.concatenate([examples.shortlists[k][1] for k in indices]))
+        # The true name and the dozen names that compete with it most: the rest teach the fit little.
+        kept = [_nearest(*examples.shortlists[k]) for k in indices]
+        return fit_reranker(np.vstack([rows for rows, _ in kept]), np.concatenate([labels for _, labels in kept]))
 
     whole = fit(usable)
     per_fold = {}
@@ -432,6 +462,16 @@ def train_reranker(examples: Examples, folds: np.ndarray) -> tuple[Reranker | No
     ranks = [_rank_of_truth(per_fold[int(files[k])].score(rows), labels) if len(rows) else 0
              for k, (rows, labels) in enumerate(examples.shortlists)]
     return whole, np.array(ranks)
+
+
+def _nearest(rows: np.ndarray, labels: np.ndarray, others: int = 12) -> tuple[np.ndarray, np.ndarray]:
+    """A shortlist cut to its true name, the `others` best-combined names and every name the cues back."""
+    if len(rows) <= others + 1:
+        return rows, labels
+    order = np.argsort(-rows[:, 3], kind="stable")  # column 3: the combined score
+    backed = np.flatnonzero(rows[:, len(TABLE_FEATURES):len(TABLE_FEATURES) + 5].any(axis=1))
+    keep = np.union1d(np.union1d(order[:others], np.flatnonzero(labels)), backed)
+    return rows[keep], labels[keep]
 
 
 def _rank_of_truth(scores: np.ndarray, truth: np.ndarray) -> int:

@@ -11,9 +11,9 @@ from .conftest import STDLIB
 from .languages.test_python import REAL_FILES
 
 
-def _fingerprint(tokens, variables):
+def _fingerprint(tokens, variables, facts=None):
     return tokens, [(v.name, v.kind, v.occurrences, v.scope_start, v.scope_end, v.function, v.public_parameter,
-                     v.bound_names, v.scope_kind) for v in variables]
+                     v.bound_names, v.scope_kind, v.dictated, v.owner, v.cues) for v in variables]
 
 
 # Real standard-library files: large classes, module docstrings with text flush left, decorators,
@@ -46,7 +46,7 @@ def test_a_syntax_error_stays_in_its_own_statement():
     text = (STDLIB / "textwrap.py").read_text(encoding="utf-8")
     broken = text.replace("def dedent(text):", "def dedent(text:", 1)
     assert broken != text
-    tokens, variables = read_python(broken)
+    tokens, variables, _ = read_python(broken)
     exact = {(v.scope_start, v.name) for v in find_variables(text, lex(text, "python"), "python")
              if v.function == "wrap"}
     # `wrap` is far from the broken `dedent`: still read exactly (the whole-file reading would

@@ -40,11 +40,11 @@ class Language:
         """Normalised tokens (see `tokens.lex_with_pygments`)."""
         return lex_with_pygments(text, self.pygments_alias, keep_comments, raw)
 
-    def find_variables(self, text: str, tokens: list[Token]) -> list:
-        """Function-local variables and parameters, from the token stream."""
+    def read(self, text: str, tokens: list[Token]) -> tuple[list, dict]:
+        """Function-local variables and parameters, from the token stream, and the file's facts."""
         from ..scopes import token_variables
 
-        return token_variables(tokens, self)
+        return token_variables(tokens, self), {}
 
     # --- hooks of the token-based scope finder (`scopes.token_variables`) ------------------
 

@@ -41,13 +41,13 @@ class Python(Language):
             return fast
         return lex_with_pygments(text, "python", keep_comments, raw)
 
-    def find_variables(self, text: str, tokens: list[Token]) -> list:
+    def read(self, text: str, tokens: list[Token]) -> tuple[list, dict]:
         from .python_scopes import python_token_variables, python_variables
 
         try:
             return python_variables(text, tokens)
         except (SyntaxError, ValueError, RecursionError, MemoryError):
-            return python_token_variables(tokens)
+            return python_token_variables(tokens), {}
 
 
 PYTHON = Python()

@@ -8,6 +8,7 @@ import warnings
 
 from ..scopes import LOCAL, PARAMETER, RECEIVER_NAMES, Variable
 from ..tokens import KEYWORD, NAME, Token
+from .python_flow import python_cues
 
 
 _SCOPE_NODES = (ast.FunctionDef, ast.AsyncFunctionDef, ast.Lambda, ast.ListComp, ast.SetComp,
@@ -39,11 +40,12 @@ class _Scope:
         self.occurrences: dict[str, list[tuple[int, int, str]]] = {}
 
 
-def python_variables(text: str, tokens: list[Token]) -> list[Variable]:
-    """Function-local variables of a whole Python file; raises SyntaxError when it does not compile."""
-    variables, module_names = python_scopes(text, tokens)
+def python_variables(text: str, tokens: list[Token]) -> tuple[list[Variable], dict]:
+    """Function-local variables of a whole Python file and its facts (classes, imports);
+    raises SyntaxError when it does not compile."""
+    variables, module_names, facts = python_scopes(text, tokens)
     add_module_names(variables, module_names)
-    return variables
+    return variables, facts
 
 
 def add_module_names(variables: list[Variable], module_names: frozenset[str]) -> None:
@@ -56,8 +58,9 @@ def add_module_names(variables: list[Variable], module_names: frozenset[str]) ->
         variable.bound_names = widened[local]
 
 
-def python_scopes(text: str, tokens: list[Token], future: str = "") -> tuple[list[Variable], frozenset[str]]:
-    """Function-local variables of Python source and the names its module level binds or uses.
+def python_scopes(text: str, tokens: list[Token], future: str = "") -> tuple[list[Variable], frozenset[str], dict]:
+    """Function-local variables of Python source, the names its module level binds or uses, and
+    its facts: each class's bases and what its imports name.
 
     The variables' bound names leave the module's names out, so that the pieces of a file
     read one top-level statement at a time can be put together (see `chunks`); `future`
@@ -206,6 +209,7 @@ def python_scopes(text: str, tokens: list[Token], future: str = "") -> tuple[lis
     visit(tree, None, children_by_key(top))
 
     variables: list[Variable] = []
+    by_id: dict[int, Variable] = {}
     for scope in scopes:
         if isinstance(scope.node, ast.ClassDef):
             continue
@@ -213,6 +217,9 @@ def python_scopes(text: str, tokens: list[Token], future: str = "") -> tuple[lis
         is_function = isinstance(scope.node, (ast.FunctionDef, ast.AsyncFunctionDef))
         positional_only = {a.arg for a in scope.node.args.posonlyargs} if is_function else set()
         public = is_function and not scope.node.name.startswith("_")
+        dictated = dictated_by(scope.node) if is_function else ""
+        owner = scope.parent.node.name if is_function and scope.parent is not None and \
+            isinstance(scope.parent.node, ast.ClassDef) else ""
         for name, places in scope.occurrences.items():
             symbol = scope.table.lookup(name)
             if symbol.is_imported() or symbol.is_namespace():
@@ -222,7 +229,7 @@ def python_scopes(text: str, tokens: list[Token], future: str = "") -> tuple[lis
             if not indices:
                 continue
             is_parameter = symbol.is_parameter()
-            variables.append(Variable(
+            variables.append(variable := Variable(
                 name=name,
                 kind=PARAMETER if is_parameter else LOCAL,
                 occurrences=indices,
@@ -233,8 +240,73 @@ def python_scopes(text: str, tokens: list[Token], future: str = "") -> tuple[lis
                 bound_names=bound,
                 scope_kind="function" if is_function else "lambda" if isinstance(scope.node, ast.Lambda)
                 else "comprehension",
+                dictated=(dictated or (_UNUSED if name.startswith("_") and name != "_" else "")) if is_parameter else "",
+                owner=owner if is_parameter else "",
             ))
-    return variables, module_names
+            by_id[id(variable)] = variable
+    variable_at = {(tokens[i].line, tokens[i].column): v for v in variables for i in v.occurrences}
+    for variable_id, found in python_cues(tree, variable_at, char_column).items():
+        by_id[variable_id].cues = tuple(dict.fromkeys(found))
+    return variables, module_names, module_facts(tree)
+
+
+_UNUSED = "its leading underscore marks it as unused on purpose"
+# Special methods whose parameters the class chooses freely: they are its own interface.
+_FREE_SPECIAL = frozenset({"__init__", "__new__", "__init_subclass__", "__post_init__", "__call__",
+                           "__class_getitem__", "__set_name__"})
+
+
+def dictated_by(node: ast.FunctionDef | ast.AsyncFunctionDef) -> str:
+    """Why a function's parameter names are not the team's to choose, or ""."""
+    decorators = [_dotted(d.func if isinstance(d, ast.Call) else d) for d in node.decorator_list]
+    last = [d.rsplit(".", 1)[-1] for d in decorators]
+    if "overload" in last:
+        return "an @overload stub repeats the real function's parameters"
+    if "setter" in last or "deleter" in last:
+        return "a property setter's parameter"
+    if node.name.startswith("__") and node.name.endswith("__") and node.name not in _FREE_SPECIAL:
+        return f"`{node.name}` takes the parameters Python's protocol gives it"
+    if node.name.startswith("test_") or "fixture" in last:
+        return "pytest passes fixtures by parameter name"
+    return ""
+
+
+def _dotted(node: ast.AST) -> str:
+    """`a.b.c` for a name or attribute chain, "" for anything else."""
+    parts = []
+    while isinstance(node, ast.Attribute):
+        parts.append(node.attr)
+        node = node.value
+    if isinstance(node, ast.Name):
+        parts.append(node.id)
+        return ".".join(reversed(parts))
+    return ""
+
+
+def module_facts(tree: ast.Module) -> dict:
+    """Each class's bases (dotted, as written) and methods, and what each imported name refers to."""
+    classes: dict[str, list[str]] = {}
+    methods: dict[str, list[str]] = {}
+    imports: dict[str, str] = {}
+    pending: list[ast.AST] = list(tree.body)
+    while pending:
+        node = pending.pop()
+        if isinstance(node, ast.ClassDef):
+            classes[node.name] = [b for b in (_dotted(base) for base in node.bases) if b]
+            methods[node.name] = [n.name for n in node.body if isinstance(n, (ast.FunctionDef, ast.AsyncFunctionDef))]
+            pending.extend(node.body)
+        elif isinstance(node, ast.Import):
+            for alias in node.names:
+                imports[alias.asname or alias.name.split(".")[0]] = alias.name if alias.asname else \
+                    alias.name.split(".")[0]
+        elif isinstance(node, ast.ImportFrom) and node.module and not node.level:
+            for alias in node.names:
+                imports[alias.asname or alias.name] = f"{node.module}.{alias.name}"
+        elif isinstance(node, (ast.If, ast.Try)):
+            pending.extend(node.body + getattr(node, "orelse", []) + getattr(node, "finalbody", []))
+            for handler in getattr(node, "handlers", []):
+                pending.extend(handler.body)
+    return {"classes": classes, "methods": methods, "imports": imports} if classes or imports else {}
 
 
 def _annotations(node) -> list[ast.AST]:

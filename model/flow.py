@@ -1,0 +1,373 @@
+"""Name flow: the names a team gives a value, by where the value comes from and where it goes.
+
+Each language module reads cues per variable, "kind:word":
+
+  call        the value is what calling `word` returns        `session = open_session()`
+  receiver    the value is got from, or an item of, `word`    `frame = self.frames.get(key)`, `rows[i]`
+  attribute   the value is the attribute `word`               `timeout = config.timeout`
+  key         the value is read or stored under key `word`    `cmd = args.get("cmd")`
+  iterated    the value is an element of `word`               `for user in users`
+  key_of      the value is a key of the mapping `word`        `for name, value in settings.items()`
+  argument    the value is passed as argument "callee#k"      `send(invoice)`
+  keyword     the value is passed as keyword `word`           `send(timeout=limit)`
+  store       the value is stored as attribute `word`         `self.timeout = limit`
+  added_to    the value is added to the collection `word`     `users.append(user)`
+  returned    the value is what function `word` returns (and "*" for any function)
+  parameter   the value is parameter "function#k"             `def send(invoice, ...)`
+  type        the value's declared type is `word` ("many T" for a collection of T)
+  default     a parameter's default value is `word`
+
+The repository index (`FlowIndex`) counts, for every cue, the names the team gives there; an
+argument and the callee's parameter at the same position index each other. Cues give
+candidate names (even names the team never used for a local: parameter names, keywords,
+singulars, de-verbed callees) and features for ranking and detection.
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from collections import Counter
+from dataclasses import dataclass, field
+
+from .tokens import join_subtokens, split_identifier
+
+# Leading words of function names that describe the action, not the thing returned.
+VERBS = frozenset("""get set load make create read parse build compute find fetch new to is has
+    open init calc calculate extract format render collect resolve lookup gen generate add
+    update apply convert normalize normalise prepare decode encode wrap split join check ensure
+    do run start fill select pick choose read write""".split())
+# Cues whose word names the value outright; the rest hint at it.
+STRONG_KINDS = frozenset({"keyword", "store", "key", "parameter", "argument", "returned", "type", "default"})
+# A cue's word that says nothing about a value's name.
+_NOTHING = frozenset({"self", "cls", "this", "super", "it", "x", "_", "value", "values", "obj", "object", "args",
+                      "kwargs", "data", "item", "items", "result", "results", "str", "int", "len", "list", "dict",
+                      "tuple", "set", "repr", "type", "isinstance", "print", "format", "join", "append", "get"})
+_PLURAL = re.compile(r"(?:[^s]s|ies|xes|ches|shes|sses)$")
+
+
+@dataclass
+class FlowIndex:
+    """For each cue, the names the team gives there (counts), and a few places for each."""
+
+    given: dict[str, Counter] = field(default_factory=dict)
+    places: dict[tuple[str, str], list[tuple[str, int]]] = field(default_factory=dict)
+    _ranked: dict[str, tuple[list[tuple[str, float]], float]] = field(default_factory=dict, repr=False)
+
+    def ranked(self, cue: str) -> tuple[list[tuple[str, float]], float]:
+        """A cue's names, most given first, and their total (worked out once per cue)."""
+        found = self._ranked.get(cue)
+        if found is None:
+            counter = self.given[cue]
+            found = self._ranked[cue] = (counter.most_common(), float(sum(counter.values())))
+        return found
+
+    def add(self, cue: str, name: str, weight: float = 1.0, place: tuple[str, int] | None = None) -> None:
+        counter = self.given.get(cue)
+        if counter is None:
+            counter = self.given[cue] = Counter()
+        counter[name] += weight
+        if place is not None:
+            found = self.places.setdefault((cue, name), [])
+            if len(found) < 2:
+                found.append(place)
+
+    def to_json(self) -> dict:
+        return {"given": {cue: sorted(counter.items(), key=lambda item: (-item[1], item[0]))
+                          for cue, counter in sorted(self.given.items())},
+                "places": [[cue, name, [list(place) for place in places]]
+                           for (cue, name), places in sorted(self.places.items())]}
+
+    @classmethod
+    def from_json(cls, data: dict) -> "FlowIndex":
+        index = cls({cue: Counter({name: float(count) for name, count in pairs}) for cue, pairs in data["given"].items()})
+        index.places = {(cue, name): [(str(path), int(line)) for path, line in places]
+                        for cue, name, places in data["places"]}
+        return index
+
+
+@dataclass
+class FileFlow:
+    """One file's share of the flow index, so that the file can be scored without it."""
+
+    given: dict[str, Counter] = field(default_factory=dict)
+
+
+def file_flow(variables, weight: float = 1.0) -> FileFlow:
+    own = FileFlow()
+    for variable in variables:
+        for cue in index_cues(variable.cues):
+            own.given.setdefault(cue, Counter())[variable.name] += weight
+    return own
+
+
+def index_cues(cues) -> list[str]:
+    """The cues a variable is counted under: its own, and "returned:*" for any returned value."""
+    found = list(cues)
+    if any(cue.startswith("returned:") for cue in cues):
+        found.append("returned:*")
+    return found
+
+
+def build_index(sources, background: frozenset[str], team_subtokens: frozenset[str],
+                background_weight: float) -> FlowIndex:
+    """The index over every file; a string key counts only if every sub-token of it is one of the team's."""
+    index = FlowIndex()
+    for source in sources:
+        weight = background_weight if source.path in background else 1.0
+        for variable in source.variables:
+            place = None if source.path in background else \
+                (source.path, source.tokens[variable.occurrences[0]].line)
+            for cue in index_cues(variable.cues):
+                if cue.startswith("key:") and not safe_key(cue[4:], team_subtokens):
+                    continue
+                index.add(cue, variable.name, weight, place)
+    return index
+
+
+def safe_key(word: str, team_subtokens: frozenset[str]) -> bool:
+    """A string key may name a value only if it reads as the team's own words (never a secret)."""
+    parts = split_identifier(word)
+    return bool(parts) and all(part in team_subtokens for part in parts)
+
+
+class CueCounts:
+    """The names given at one cue in the index, adjusted by a delta (this file's share in or out)."""
+
+    __slots__ = ("ranked", "counts", "delta", "total")
+
+    def __init__(self, ranked: list[tuple[str, float]], counts: Counter, total: float, delta: dict[str, float]):
+        self.ranked, self.counts, self.delta = ranked, counts, delta
+        self.total = total + sum(delta.values())
+
+    def get(self, name: str) -> float:
+        count = self.counts.get(name, 0.0) + self.delta.get(name, 0.0)
+        return count if count > 1e-6 else 0.0
+
+    def share(self, name: str) -> float:
+        return self.get(name) / self.total if self.total > 1e-6 else 0.0
+
+    def top(self, limit: int, allowed) -> list[tuple[str, float]]:
+        """The most common allowed names, best first."""
+        found = []
+        seen = set()
+        for name, count in self.ranked:
+            count += self.delta.get(name, 0.0)
+            seen.add(name)
+            if count > 1e-6 and allowed(name):
+                found.append((name, count))
+                if len(found) >= limit + len(self.delta):
+                    break
+        found.extend((name, count) for name, count in self.delta.items()
+                     if name not in seen and count > 1e-6 and name not in self.counts and allowed(name))
+        found.sort(key=lambda item: -item[1])
+        return found[:limit]
+
+
+class FlowView:
+    """The index as one file sees it: less the file's share the model learned (`learned`), plus the
+    file as it stands now (`current`), so that code in the file, other functions included, counts
+    while the model never remembers the file. A variable then leaves out its own share (`for_variable`)."""
+
+    def __init__(self, index: FlowIndex, learned: FileFlow | None = None, current: FileFlow | None = None):
+        self.index = index
+        self.delta: dict[str, dict[str, float]] = {}
+        for share, sign in ((learned, -1.0), (current, 1.0)):
+            for cue, counter in (share.given.items() if share is not None else ()):
+                entry = self.delta.setdefault(cue, {})
+                for name, count in counter.items():
+                    entry[name] = entry.get(name, 0.0) + sign * count
+
+    def counts(self, cue: str, own_name: str | None = None, own_weight: float = 0.0) -> CueCounts | None:
+        """The names at a cue; `own_name` takes the variable's own share out."""
+        delta = self.delta.get(cue, {})
+        if own_name is not None and own_weight:
+            delta = dict(delta)
+            delta[own_name] = delta.get(own_name, 0.0) - own_weight
+        given = self.index.given.get(cue)
+        if given is None:
+            if not any(count > 1e-6 for count in delta.values()):
+                return None
+            ranked, total, given = [], 0.0, Counter()
+        else:
+            ranked, total = self.index.ranked(cue)
+        found = CueCounts(ranked, given, total, delta)
+        return found if found.total > 1e-6 else None
+
+
+def cross_cue(cue: str) -> str | None:
+    """An argument at position k and the callee's parameter k index each other."""
+    if cue.startswith("argument:"):
+        return "parameter:" + cue[len("argument:"):]
+    if cue.startswith("parameter:"):
+        return "argument:" + cue[len("parameter:"):]
+    return None
+
+
+def implied_names(cue: str, style: str) -> list[str]:
+    """Names a cue's word suggests by itself, in the team's style: `frames` gives frame,
+    `load_user_profile` gives user_profile and profile, `Session` gives session."""
+    kind, _, word = cue.partition(":")
+    if kind in ("argument", "parameter", "key_of") or not word or word == "*":
+        return []
+    many = word.startswith("many ")
+    parts = [p for p in split_identifier(word[5:] if many else word) if p.isalpha()]
+    if not parts or word in _NOTHING:
+        return []
+    if kind in ("call", "returned") and parts[0] in VERBS:
+        parts = parts[1:]
+    if kind == "default" and parts[0] == "default":
+        parts = parts[1:]
+    if not parts or all(part in VERBS for part in parts):
+        return []
+    options = [parts]
+    if kind in ("receiver", "iterated", "added_to"):
+        if not _PLURAL.search(parts[-1]):
+            return []
+        options = [parts[:-1] + [singular(parts[-1])]]
+    elif many:
+        options = [parts[:-1] + [plural(parts[-1])]]
+    if len(options[0]) > 1:
+        options.append(options[0][-1:])
+    names = []
+    for option in options:
+        name = join_subtokens(option, style)
+        if len(name) >= 2 and name.isidentifier() and name not in names:
+            names.append(name)
+    return names
+
+
+def singular(word: str) -> str:
+    if word.endswith("ies") and len(word) > 4:
+        return word[:-3] + "y"
+    if word.endswith(("sses", "xes", "ches", "shes")):
+        return word[:-2]
+    if word.endswith("s") and not word.endswith(("ss", "us", "is")):
+        return word[:-1]
+    return word
+
+
+def plural(word: str) -> str:
+    if word.endswith("y") and len(word) > 2 and word[-2] not in "aeiou":
+        return word[:-1] + "ies"
+    if word.endswith(("s", "x", "ch", "sh")):
+        return word + "es"
+    return word + "s"
+
+
+FEATURES = ("flow_share", "flow_log_count", "flow_strong", "flow_weak", "flow_partial", "flow_cues")
+
+
+@dataclass
+class Flow:
+    """One variable's cues, with what the index says at each: who is named what there."""
+
+    cues: list[str]
+    given: list[tuple[str, CueCounts]]  # (cue, names given there), cross cues included
+    implied: dict[str, list[str]]  # name -> the cues that imply it by their word
+    allowed: object  # name -> whether it may name this variable
+
+    def candidates(self, limit_per_cue: int = 8) -> list[str]:
+        """Names the cues put forward: the team's names at each cue, then names the words imply."""
+        found: dict[str, None] = {}
+        for _, counts in self.given:
+            for name, _ in counts.top(limit_per_cue, self.allowed):
+                found.setdefault(name)
+        for name in self.implied:
+            found.setdefault(name)
+        return list(found)
+
+    def features(self, name: str) -> list[float]:
+        """How the cues back a name: the best share of the team's names at a cue, counts, and
+        how many cues' words name it outright or in part."""
+        share, total = 0.0, 0.0
+        for _, counts in self.given:
+            count = counts.get(name)
+            if count:
+                share = max(share, count / counts.total)
+                total += count
+        cues = self.implied.get(name, [])
+        strong = sum(1 for cue in cues if cue.split(":", 1)[0] in STRONG_KINDS)
+        parts = set(split_identifier(name))
+        partial = 0.0
+        if parts:
+            for other in self.implied:
+                if other != name:
+                    partial = max(partial, len(parts & set(split_identifier(other))) / len(parts))
+        return [share, math.log1p(total), float(strong), float(len(cues) - strong), partial, float(len(self.cues))]
+
+    def best_other_share(self, name: str) -> float:
+        """The largest share any other name has at any cue."""
+        best = 0.0
+        for _, counts in self.given:
+            for other, count in counts.top(2, self.allowed):
+                if other != name:
+                    best = max(best, count / counts.total)
+                    break
+        return best
+
+    def peak(self) -> tuple[str | None, float]:
+        """The name the team gives most consistently at one of the cues (at least 3 names there)."""
+        best, best_share = None, 0.0
+        for _, counts in self.given:
+            if counts.total < 3:
+                continue
+            top = counts.top(1, self.allowed)
+            if top and top[0][1] / counts.total > best_share:
+                best, best_share = top[0][0], top[0][1] / counts.total
+        return best, best_share
+
+    def evidence(self, name: str) -> str:
+        """Why the cues back a name, in words: "callers pass `invoice` here", "`frames.get(...)` gives a `frame`"."""
+        for cue, counts in self.given:
+            count = counts.get(name)
+            if count:
+                kind, _, word = cue.partition(":")
+                return describe(kind, word, name, int(round(count)))
+        for cue in self.implied.get(name, []):
+            kind, _, word = cue.partition(":")
+            return describe(kind, word, name, 0)
+        return ""
+
+
+def describe(kind: str, word: str, name: str, count: int) -> str:
+    """A cue in words, as evidence for a name."""
+    times = f" in {count} place{'s' if count != 1 else ''}" if count else ""
+    callee, _, position = word.partition("#")
+    texts = {
+        "call": f"`{word}(...)` gives a `{name}`{times}",
+        "receiver": f"values from `{word}` are called `{name}`{times}",
+        "attribute": f"`.{word}` is held in a `{name}`{times}",
+        "key": f"the key `{word}` names a `{name}`{times}",
+        "iterated": f"an element of `{word}` is a `{name}`{times}",
+        "key_of": f"a key of `{word}` is a `{name}`{times}",
+        "argument": f"`{callee}` calls its parameter {int(position) + 1 if position.isdigit() else position} "
+                    f"`{name}`" if not count else f"callers pass `{name}` to `{callee}` here{times}",
+        "parameter": f"callers pass `{name}` here{times}",
+        "keyword": f"it is passed as `{word}=`",
+        "store": f"it is stored as `.{word}`",
+        "added_to": f"it is added to `{word}`",
+        "returned": f"`{word}` returns it" if word != "*" else f"the team calls a returned value `{name}`{times}",
+        "type": f"a `{word}` is called `{name}`{times}" if count else f"its type is `{word}`",
+        "default": f"its default is `{word}`",
+    }
+    return texts.get(kind, "")
+
+
+def variable_flow(variable, view: FlowView, style: str, allowed, weight: float = 0.0) -> Flow:
+    """The flow a variable's cues describe, under `view`; `weight` is the variable's own share
+    in the view (taken out), `allowed(name)` filters names."""
+    given: list[tuple[str, CueCounts]] = []
+    implied: dict[str, list[str]] = {}
+    own = set(index_cues(variable.cues))
+    for cue in index_cues(variable.cues):
+        for looked_up in (cue, cross_cue(cue)):
+            if not looked_up:
+                continue
+            counts = view.counts(looked_up, variable.name, weight if looked_up in own else 0.0)
+            if counts is not None:
+                given.append((looked_up, counts))
+        for name in implied_names(cue, style):
+            if allowed(name):
+                implied.setdefault(name, []).append(cue)
+    return Flow(list(variable.cues), given, implied, allowed)
