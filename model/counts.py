@@ -188,6 +188,27 @@ def _evidence(counts: list[FileCounts], sources: dict[str, SourceFile], row_by_n
             "evidence_vectors": np.array(vectors, dtype=np.float32).reshape(len(vectors), inputs.shape[1])}
 
 
+def forget_file(tables: NameTables, source: SourceFile, weight: float = 1.0, whole_file: bool = True,
+                share: FileCounts | None = None) -> tuple["Holdout", np.ndarray]:
+    """A file's holdout and its token ids as a model that never saw it reads them: tokens only this
+    file brought into the vocabulary are unknown."""
+    from collections import Counter
+
+    from .flow import file_flow
+
+    vocabulary = tables.vocabulary
+    counts = Counter(t.text for t in source.tokens)
+    index = vocabulary.index
+    unseen = frozenset(text for text, count in counts.items()
+                       if text in index and vocabulary.counts[index[text]] - count < tables.min_count)
+    share = share or count_file(source, vocabulary, weight, tables.positional)
+    holdout = Holdout(tables, share, file_flow(source.variables, weight), whole_file, unseen)
+    ids = token_ids(source, vocabulary)
+    if unseen:
+        ids[np.isin(ids, np.array([index[text] for text in unseen]))] = 0
+    return holdout, ids
+
+
 class Holdout:
     """A file's own share of the tables, subtracted so that the file is scored as if never seen.
 

@@ -12,6 +12,7 @@ Each language module reads cues per variable, "kind:word":
   keyword     the value is passed as keyword `word`           `send(timeout=limit)`
   store       the value is stored as attribute `word`         `self.timeout = limit`
   added_to    the value is added to the collection `word`     `users.append(user)`
+  holds       the value is a collection of `word`s            `users.append(user)`, `for user in users`
   returned    the value is what function `word` returns (and "*" for any function)
   parameter   the value is parameter "function#k"             `def send(invoice, ...)`
   type        the value's declared type is `word` ("many T" for a collection of T)
@@ -53,6 +54,18 @@ class FlowIndex:
     given: dict[str, Counter] = field(default_factory=dict)
     places: dict[tuple[str, str], list[tuple[str, int]]] = field(default_factory=dict)
     _ranked: dict[str, tuple[list[tuple[str, float]], float]] = field(default_factory=dict, repr=False)
+    _name_totals: Counter | None = field(default=None, repr=False)
+    _grand_total: float = field(default=0.0, repr=False)
+
+    def name_share(self, name: str) -> float:
+        """How often a name is given at any cue, as a share of every name given (smoothed)."""
+        if self._name_totals is None:
+            totals: Counter = Counter()
+            for counter in self.given.values():
+                totals.update(counter)
+            self._name_totals = totals
+            self._grand_total = float(sum(totals.values()))
+        return (self._name_totals.get(name, 0.0) + 1.0) / (self._grand_total + len(self._name_totals) + 1.0)
 
     def ranked(self, cue: str) -> tuple[list[tuple[str, float]], float]:
         """A cue's names, most given first, and their total (worked out once per cue)."""
@@ -225,7 +238,7 @@ def implied_names(cue: str, style: str) -> list[str]:
         if not _PLURAL.search(parts[-1]):
             return []
         options = [parts[:-1] + [singular(parts[-1])]]
-    elif many:
+    elif many or kind == "holds":
         options = [parts[:-1] + [plural(parts[-1])]]
     if len(options[0]) > 1:
         options.append(options[0][-1:])
@@ -255,7 +268,8 @@ def plural(word: str) -> str:
     return word + "s"
 
 
-FEATURES = ("flow_share", "flow_log_count", "flow_strong", "flow_weak", "flow_partial", "flow_cues")
+FEATURES = ("flow_share", "flow_log_count", "flow_strong", "flow_weak", "flow_partial", "flow_cues", "flow_fit")
+PRIOR = 2.0  # pseudo-names of the overall distribution added at each cue
 
 
 @dataclass
@@ -266,6 +280,23 @@ class Flow:
     given: list[tuple[str, CueCounts]]  # (cue, names given there), cross cues included
     implied: dict[str, list[str]]  # name -> the cues that imply it by their word
     allowed: object  # name -> whether it may name this variable
+    index: FlowIndex | None = None
+
+    def fit(self, name: str) -> float:
+        """How much likelier the names given at the variable's own cues make this name than its
+        overall frequency does (a sum of smoothed log ratios; 0 without cues)."""
+        if self.index is None:
+            return 0.0
+        overall = self.index.name_share(name)
+        total = 0.0
+        for cue, counts in self.given:
+            if cue in self.own:
+                total += math.log((counts.get(name) + PRIOR * overall) / ((counts.total + PRIOR) * overall))
+        return total
+
+    @property
+    def own(self) -> frozenset[str]:
+        return frozenset(index_cues(self.cues))
 
     def candidates(self, limit_per_cue: int = 8) -> list[str]:
         """Names the cues put forward: the team's names at each cue, then names the words imply."""
@@ -294,7 +325,8 @@ class Flow:
             for other in self.implied:
                 if other != name:
                     partial = max(partial, len(parts & set(split_identifier(other))) / len(parts))
-        return [share, math.log1p(total), float(strong), float(len(cues) - strong), partial, float(len(self.cues))]
+        return [share, math.log1p(total), float(strong), float(len(cues) - strong), partial, float(len(self.cues)),
+                self.fit(name)]
 
     def best_other_share(self, name: str) -> float:
         """The largest share any other name has at any cue."""
@@ -347,6 +379,7 @@ def describe(kind: str, word: str, name: str, count: int) -> str:
         "keyword": f"it is passed as `{word}=`",
         "store": f"it is stored as `.{word}`",
         "added_to": f"it is added to `{word}`",
+        "holds": f"it holds `{word}` values",
         "returned": f"`{word}` returns it" if word != "*" else f"the team calls a returned value `{name}`{times}",
         "type": f"a `{word}` is called `{name}`{times}" if count else f"its type is `{word}`",
         "default": f"its default is `{word}`",
@@ -370,4 +403,4 @@ def variable_flow(variable, view: FlowView, style: str, allowed, weight: float =
         for name in implied_names(cue, style):
             if allowed(name):
                 implied.setdefault(name, []).append(cue)
-    return Flow(list(variable.cues), given, implied, allowed)
+    return Flow(list(variable.cues), given, implied, allowed, view.index)

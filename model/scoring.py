@@ -55,6 +55,8 @@ class NameTables:
     variables_per_language: dict[str, int] = field(default_factory=dict)
     positional: bool = True  # context counts keep each neighbour's offset (False: a bag of neighbours)
     flow: FlowIndex = field(default_factory=FlowIndex)  # names the team gives at each cue (flow.py)
+    trained_paths: frozenset[str] = frozenset()  # the team's files the counts include
+    min_count: int = 2  # the vocabulary's minimum count
 
     def raw_counts(self, language: str):
         """Context counts (features x this language's candidates) as a sparse matrix, built on first use."""
@@ -469,7 +471,7 @@ FEATURE_NAMES = (
     "combined_gap", "count_gap", "embedding_gap", "lexical_current", "lexical_best", "log_rank",
     "log_name_count", "known", "log_occurrences", "is_parameter", "embedding_current", "count_current_gap_top1",
     "parts_known", "flow_share_current", "flow_strong_current", "flow_weak_current", "flow_partial_current",
-    "flow_best_other_share", "flow_peak_share", "flow_peak_agrees", "flow_cues",
+    "flow_best_other_share", "flow_peak_share", "flow_peak_agrees", "flow_cues", "flow_fit_current",
 )
 
 
@@ -501,11 +503,11 @@ def detection_features(tables: NameTables, ranking: Ranking, allowed: np.ndarray
 def _flow_detection(flow: Flow | None, name: str) -> list[float]:
     """How the variable's cues back its current name against any other name."""
     if flow is None:
-        return [0.0] * 8
-    share, _, strong, weak, partial, cues = flow.features(name)
+        return [0.0] * 9
+    share, _, strong, weak, partial, cues, fit = flow.features(name)
     peak_name, peak_share = flow.peak()
     return [share, strong, weak, partial, flow.best_other_share(name), peak_share, 1.0 if peak_name == name else 0.0,
-            cues]
+            cues, fit]
 
 
 @dataclass
@@ -594,11 +596,18 @@ class Scorer:
         With suggest_above, names are suggested only for variables whose oddness passes it
         (the others keep an empty list): the expensive part is skipped where nothing is shown.
         """
-        if ids is None:
+        holdout = None
+        if source.path in self.tables.trained_paths:
+            # The model learned from this file: take its share out, as calibration did, or the
+            # file's own names would back themselves.
+            from .counts import forget_file
+
+            holdout, ids = forget_file(self.tables, source, whole_file=False)
+        elif ids is None:
             ids = token_ids(source, self.tables.vocabulary)
         judged = [v for v in variables if v.name not in IGNORED_NAMES]
         rankings = {id(variable): ranking for variable, ranking in
-                    zip(judged, rank_in_batches(self.tables, source, judged, ids, self.weights, batch=chunk))}
+                    zip(judged, rank_in_batches(self.tables, source, judged, ids, self.weights, holdout, chunk))}
         return [self._judge_ranked(source, v, rankings.get(id(v)), limit, suggest_above) for v in variables]
 
     def _judge_ranked(self, source: SourceFile, variable: Variable, ranking: Ranking | None,

@@ -11,18 +11,17 @@ import hashlib
 import os
 import random
 import time
-from collections import Counter
 from dataclasses import asdict, dataclass, field
 
 import numpy as np
 
 from .corpus import Corpus, SourceFile
-from .counts import FileCounts, Holdout, build_tables, count_file
-from .flow import build_index, file_flow
+from .counts import FileCounts, build_tables, count_file, forget_file
+from .flow import build_index
 from .reranking import TABLE_FEATURES, Reranker, fit_reranker, shortlist_features
 from .scopes import Variable
 from .scoring import (IGNORED_NAMES, Detector, NameTables, Weights, allowed_mask, detection_features,
-                      fit_detector, name_fit, rank_in_batches, token_ids)
+                      fit_detector, name_fit, rank_in_batches)
 from .vocabulary import Vocabulary, build_vocabulary, count_tokens
 
 MAX_SENTENCE = 10_000  # gensim silently truncates longer sentences
@@ -235,17 +234,8 @@ def _draw(seed: int, path: str) -> int:
     return int.from_bytes(hashlib.sha256(f"{seed}:{path}".encode()).digest()[:8], "big")
 
 
-def unseen_tokens(source: SourceFile, vocabulary: Vocabulary, min_count: int) -> frozenset[str]:
-    """Tokens of the vocabulary that would fall under its minimum count without this file."""
-    counts = Counter(t.text for t in source.tokens)
-    index = vocabulary.index
-    return frozenset(text for text, count in counts.items()
-                     if text in index and vocabulary.counts[index[text]] - count < min_count)
-
-
 def collect_examples(tables: NameTables, files: list[SourceFile], shares: dict[str, FileCounts], seed: int,
-                     weights: Weights | None = None, background: frozenset[str] = frozenset(),
-                     min_count: int = 2) -> Examples:
+                     weights: Weights | None = None, background: frozenset[str] = frozenset()) -> Examples:
     """Real variables and one seeded misname each, every file scored without its own share of the counts."""
     rng = random.Random(seed)
     examples = Examples()
@@ -258,13 +248,7 @@ def collect_examples(tables: NameTables, files: list[SourceFile], shares: dict[s
         judged = [v for v in source.variables if v.name not in IGNORED_NAMES and not v.dictated]
         if not judged:
             continue
-        unseen = unseen_tokens(source, tables.vocabulary, min_count)
-        holdout = Holdout(tables, shares[source.path], file_flow(source.variables, shares[source.path].weight),
-                          unseen=unseen)
-        ids = token_ids(source, tables.vocabulary)
-        if unseen:
-            # Tokens only this file brought into the vocabulary are unknown to a model without it.
-            ids[np.isin(ids, np.array([tables.vocabulary.index[t] for t in unseen]))] = 0
+        holdout, ids = forget_file(tables, source, shares[source.path].weight, share=shares[source.path])
         rankings = rank_in_batches(tables, source, judged, ids, weights, holdout)
         local_names = file_local_names(source)
         for variable, ranking in zip(judged, rankings):
@@ -328,12 +312,13 @@ def train(corpus: Corpus, settings: TrainSettings, progress=None, background: Co
     sources = {f.path: f for f in everything}
     tables = build_tables(list(shares.values()), sources, vocabulary, inputs, outputs, settings.names_per_language,
                           settings.positional_counts, settings.seed, background_paths)
+    tables.min_count = settings.min_count
+    tables.trained_paths = frozenset(f.path for f in corpus.files)
     if settings.use_flow:
         tables.flow = build_index(everything, background_paths, team_subtokens(corpus.files),
                                   settings.background_weight)
     sample = sample_files(corpus.files, background_files, settings.examples_per_language, settings.seed)
-    examples = collect_examples(tables, sample, shares, settings.seed, settings.weights, background_paths,
-                                settings.min_count)
+    examples = collect_examples(tables, sample, shares, settings.seed, settings.weights, background_paths)
     calibrated = calibrate_model(examples, corpus, settings)
     finished = time.monotonic()
     return TrainedModel(

@@ -148,6 +148,8 @@ def iter_cues(target: ast.AST, iterable: ast.AST, of, add) -> None:
     container = last_name(iterable)
     if container:
         add(of(target), "iterated", container, iterable)
+    if isinstance(target, ast.Name):
+        add(of(iterable), "holds", target.id, target)  # `for reading in readings`
 
 
 def call_cues(call: ast.Call, of, add) -> None:
@@ -168,6 +170,9 @@ def call_cues(call: ast.Call, of, add) -> None:
         container = last_name(callee.value)
         if container:
             add(of(call.args[-1]), "added_to", container, callee.value)
+        item = last_name(call.args[-1])
+        if item:
+            add(of(callee.value), "holds", item, call.args[-1])  # `readings.append(reading)`
 
 
 def function_cues(function, of, add, called_as: str = "") -> None:
