@@ -19,6 +19,7 @@ from .chunks import PieceCache, read_python
 from .languages import GENERATED_SUFFIXES, get_language, language_for_path, lex
 from .languages.python_scopes import python_variables
 from .scopes import Variable
+from .suppression import kept_lines
 from .tokens import Token
 
 MAX_FILE_BYTES = 1 << 20
@@ -235,6 +236,9 @@ def _analyse(text: str, path: str, language: str, digest: str, pieces: PieceCach
     if variables is None:
         tokens, variables, facts = read_python(text, pieces)
     variables = sorted((v for v in variables if v.occurrences), key=lambda v: v.occurrences[0])
+    kept = kept_lines(text)
+    if kept:
+        facts = dict(facts, kept_lines=kept)
     lines = sum(1 for line in text.splitlines() if line.strip())
     return SourceFile(path, language, digest, lines, tokens, variables, facts)
 

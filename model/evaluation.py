@@ -94,7 +94,7 @@ def evaluate_corpus(corpus: Corpus, settings: TrainSettings, held_share: float =
         ids = token_ids(source, tables.vocabulary)
         local_names = file_local_names(source)
         limit = scorer.threshold_for(source.language)
-        judged = [v for v in source.variables if v.name not in IGNORED_NAMES and not v.dictated]
+        judged = [v for v in source.variables if v.name not in IGNORED_NAMES and not scorer.dictated(source, v)]
         for variable, ranking in zip(judged, rank_in_batches(tables, source, judged, ids, scorer.weights)):
             if ranking is None:
                 continue

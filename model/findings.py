@@ -12,6 +12,7 @@ import numpy as np
 from .chunks import PieceCache
 from .corpus import SourceFile, analyse
 from .scopes import Variable
+from .suppression import is_kept
 from .scoring import IGNORED_NAMES, Judgement, Scorer, Suggestion, allowed_mask, rank_candidates, token_ids
 from .languages import get_language, language_for_path
 
@@ -50,8 +51,11 @@ class Finding:
 
 
 def suggestion_json(suggestion: Suggestion) -> dict:
-    return {"name": suggestion.name, "score": round(suggestion.score, 4),
-            "evidence": [{"path": path, "line": line} for path, line in suggestion.evidence]}
+    found = {"name": suggestion.name, "score": round(suggestion.score, 4),
+             "evidence": [{"path": path, "line": line} for path, line in suggestion.evidence]}
+    if suggestion.reason:
+        found["why"] = suggestion.reason
+    return found
 
 
 def _finding(source: SourceFile, judgement: Judgement, scorer: Scorer, threshold: float) -> Finding:
@@ -81,8 +85,13 @@ def analyse_text(text: str, path: str, language: str | None = None,
 
 
 def check_source(scorer: Scorer, source: SourceFile, threshold: float | None = None,
-                 flagged_only: bool = True, cache: "JudgementCache | None" = None) -> list[Finding]:
-    """Every variable whose name does not fit its use (or every judged variable, if asked)."""
+                 flagged_only: bool = True, cache: "JudgementCache | None" = None,
+                 accepted: dict[str, list[str]] | None = None, kept: list | None = None) -> list[Finding]:
+    """Every variable whose name does not fit its use (or every judged variable, if asked).
+
+    Names kept on purpose (a keep-name comment, `accepted`) are never flagged; flags they
+    would have had go to `kept` when a list is given.
+    """
     limit = scorer.threshold_for(source.language, threshold)
     findings = []
     variables = [v for v in source.variables if v.name not in IGNORED_NAMES]
@@ -93,6 +102,12 @@ def check_source(scorer: Scorer, source: SourceFile, threshold: float | None = N
         judgements = scorer.judge_many(source, variables, suggest_above=suggest_above)
     for judgement in judgements:
         finding = _finding(source, judgement, scorer, limit)
+        if finding.flagged and is_kept(source, judgement.variable, accepted):
+            finding.flagged = False
+            if kept is not None:
+                kept.append(finding)
+            if flagged_only:
+                continue
         if finding.flagged or not flagged_only:
             findings.append(finding)
     return findings

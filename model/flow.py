@@ -349,17 +349,22 @@ class Flow:
                 best, best_share = top[0][0], top[0][1] / counts.total
         return best, best_share
 
-    def evidence(self, name: str) -> str:
-        """Why the cues back a name, in words: "callers pass `invoice` here", "`frames.get(...)` gives a `frame`"."""
+    def reason(self, name: str) -> tuple[str, str]:
+        """Why the cues back a name, in words ("callers pass `invoice` here", "`frames.get(...)` gives a
+        `frame`"), and the cue; empty when they do not."""
+        best, best_share = None, 0.0
         for cue, counts in self.given:
-            count = counts.get(name)
-            if count:
-                kind, _, word = cue.partition(":")
-                return describe(kind, word, name, int(round(count)))
+            share = counts.share(name)
+            if share > best_share and cue != "returned:*":
+                best, best_share = (cue, counts), share
+        if best is not None:
+            cue, counts = best
+            kind, _, word = cue.partition(":")
+            return describe(kind, word, name, int(round(counts.get(name)))), cue
         for cue in self.implied.get(name, []):
             kind, _, word = cue.partition(":")
-            return describe(kind, word, name, 0)
-        return ""
+            return describe(kind, word, name, 0), ""
+        return "", ""
 
 
 def describe(kind: str, word: str, name: str, count: int) -> str:

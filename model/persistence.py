@@ -27,7 +27,8 @@ def save(store: Path, trained: TrainedModel, manifest: dict) -> Path:
         "names": {"names": tables.names, "languages": tables.name_languages, "styles": tables.styles,
                   "evidence_paths": tables.evidence_paths, "total_occurrences": tables.total_occurrences,
                   "variables_per_language": tables.variables_per_language, "positional": tables.positional,
-                  "trained_paths": sorted(tables.trained_paths), "min_count": tables.min_count},
+                  "trained_paths": sorted(tables.trained_paths), "min_count": tables.min_count,
+                  "classes": tables.classes},
     }
     documents["flow"] = tables.flow.to_json()
     if trained.detector is not None:
@@ -58,6 +59,7 @@ def scorer_from_bundle(loaded: store_files.Bundle) -> Scorer:
             positional=bool(names.get("positional", True)),
             flow=FlowIndex.from_json(loaded.documents["flow"]),
             trained_paths=frozenset(names["trained_paths"]), min_count=int(names["min_count"]),
+            classes=dict(names["classes"]),
             **{name: arrays[name] for name in _TABLE_ARRAYS},
         )
         _check_shapes(tables)

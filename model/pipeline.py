@@ -114,7 +114,8 @@ def train_repository(path: Path, store: Path, settings: TrainSettings, policy: G
     policy = policy or GatePolicy()
     report = report or (lambda *args: None)
     started = time.monotonic()
-    selection = discover(path, read_settings(path))
+    repository_settings = read_settings(path)
+    selection = discover(path, repository_settings)
     if not selection.files:
         raise NothingToLearn(f"nothing to learn from: 0 source files under {path}")
     report("files", len(selection.files))
@@ -140,7 +141,8 @@ def train_repository(path: Path, store: Path, settings: TrainSettings, policy: G
     # them out of the garbage collector's walks while the model is trained.
     gc.freeze()
     try:
-        trained = train(corpus, settings, progress=lambda *args: report("epoch", *args), background=extra)
+        trained = train(corpus, settings, progress=lambda *args: report("epoch", *args), background=extra,
+                        accepted=repository_settings.accepted_names)
     finally:
         gc.unfreeze()
     identifiers = Counter(t.text for f in corpus.files for t in f.tokens if t.kind == "name")

@@ -75,6 +75,7 @@ def token_variables(tokens: list[Token], language) -> list[Variable]:
     # names in the parenthesised list right before a block opens.
     header_block: dict[int, int] = {}
     public_blocks: set[int] = set()
+    dictated_blocks: dict[int, str] = {}  # why a function's parameter names are not its own to choose
     for block_id, block in enumerate(blocks):
         if block.start <= 0 or block.is_type_body:
             continue
@@ -87,6 +88,12 @@ def token_variables(tokens: list[Token], language) -> list[Variable]:
             declarations.append((index, block_id, PARAMETER))
         if parameters and language.is_public_function(tokens, header):
             public_blocks.add(block_id)
+        if parameters:
+            enclosing = blocks[block.parent] if block.parent >= 0 else None
+            reason = language.dictated_by(tokens, header, language.block_header(tokens, enclosing.start)
+                                          if enclosing is not None and enclosing.start > 0 else range(0))
+            if reason:
+                dictated_blocks[block_id] = reason
     declarations = [(index, header_block.get(index, block_id), kind) for index, block_id, kind in declarations]
 
     declared_in: dict[tuple[int, str], int] = {}
@@ -141,6 +148,7 @@ def token_variables(tokens: list[Token], language) -> list[Variable]:
             scope_start=tokens[block.start].line,
             scope_end=tokens[block.end - 1].line if block.end > 0 else tokens[-1].line,
             public_parameter=kind == PARAMETER and block_id in public_blocks,
+            dictated=dictated_blocks.get(block_id, "") if kind == PARAMETER else "",
             bound_names=bound,
             scope_kind="block",
             shorthand=tuple(shorthand),

@@ -56,6 +56,7 @@ class NameTables:
     positional: bool = True  # context counts keep each neighbour's offset (False: a bag of neighbours)
     flow: FlowIndex = field(default_factory=FlowIndex)  # names the team gives at each cue (flow.py)
     trained_paths: frozenset[str] = frozenset()  # the team's files the counts include
+    classes: dict = field(default_factory=dict)  # the team's classes: bases and methods (overrides.py)
     min_count: int = 2  # the vocabulary's minimum count
 
     def raw_counts(self, language: str):
@@ -130,6 +131,7 @@ class Suggestion:
     name: str
     score: float
     evidence: list[tuple[str, int]] = field(default_factory=list)
+    reason: str = ""  # what in the variable's flow backs the name, in words
 
 
 @dataclass
@@ -170,6 +172,7 @@ class Judgement:
     oddness: float | None
     suggestions: list[Suggestion]
     features: np.ndarray | None = None
+    dictated: str = ""  # why the name is never judged
 
 
 # --- contexts ---------------------------------------------------------------------------
@@ -610,10 +613,26 @@ class Scorer:
                     zip(judged, rank_in_batches(self.tables, source, judged, ids, self.weights, holdout, chunk))}
         return [self._judge_ranked(source, v, rankings.get(id(v)), limit, suggest_above) for v in variables]
 
+    def dictated(self, source: SourceFile, variable: Variable) -> str:
+        """Why a variable's name is not the team's to choose, or "": then it is never flagged."""
+        if variable.dictated or variable.kind != "parameter" or not variable.owner:
+            return variable.dictated
+        from .overrides import inherited_from
+
+        base = inherited_from(variable.owner, variable.function, source.facts, self.tables.classes)
+        return f"it overrides `{base}`" if base else ""
+
     def _judge_ranked(self, source: SourceFile, variable: Variable, ranking: Ranking | None,
                       limit: int, suggest_above: float | None = None) -> Judgement:
         if ranking is None:
             return Judgement(variable, None, [])
+        dictated = self.dictated(source, variable)
+        if dictated:
+            # Not the team's name to choose: never flagged, though names are still offered on request.
+            suggestions = [] if suggest_above is not None else self.suggestions(
+                ranking, allowed_mask(self.tables, ranking, variable.bound_names, variable.name), limit,
+                variable.bound_names, variable.name)
+            return Judgement(variable, None, suggestions, dictated=dictated)
         allowed = allowed_mask(self.tables, ranking, variable.bound_names, variable.name)
         fit = name_fit(self.tables, ranking, variable.name, self.weights)
         oddness, features = None, None
@@ -630,23 +649,40 @@ class Scorer:
 
     def suggestions(self, ranking: Ranking, allowed: np.ndarray, limit: int,
                     bound: frozenset[str] = frozenset(), current: str = "") -> list[Suggestion]:
-        """The best names for a variable, best first, each with its evidence."""
+        """The best names for a variable, best first, each with what backs it: places in the team's
+        code, or the variable's flow. A name with neither is never offered."""
         if self.reranker is not None:
-            return [Suggestion(name, share, self.evidence(row, ranking) if row is not None else [])
-                    for name, share, row in self.reranker.rank(self.tables, ranking, allowed, bound, current,
-                                                               self.weights, limit)]
-        combined = np.where(allowed, ranking.combined, -np.inf)
-        if not allowed.any():
-            return []
-        if len(combined) > limit:
-            candidates = np.argpartition(-combined, limit)[:limit]
+            ranked = self.reranker.rank(self.tables, ranking, allowed, bound, current, self.weights, 2 * limit)
         else:
-            candidates = np.arange(len(combined))
-        top = [int(i) for i in candidates[np.argsort(-combined[candidates], kind="stable")] if np.isfinite(combined[i])]
-        shifted = combined[top] - _logsumexp(combined[np.isfinite(combined)])
-        return [Suggestion(self.tables.names[ranking.rows[i]], float(math.exp(score)),
-                           self.evidence(int(ranking.rows[i]), ranking))
-                for i, score in zip(top, shifted)]
+            combined = np.where(allowed, ranking.combined, -np.inf)
+            if not allowed.any():
+                return []
+            take = min(2 * limit, len(combined) - 1)
+            candidates = np.argpartition(-combined, take)[:take] if take > 0 else np.arange(len(combined))
+            top = [int(i) for i in candidates[np.argsort(-combined[candidates], kind="stable")]
+                   if np.isfinite(combined[i])]
+            shifted = combined[top] - _logsumexp(combined[np.isfinite(combined)])
+            ranked = [(self.tables.names[ranking.rows[i]], float(math.exp(score)), int(ranking.rows[i]))
+                      for i, score in zip(top, shifted)]
+        found = []
+        for name, score, row in ranked:
+            suggestion = self._backed(name, score, row, ranking)
+            if suggestion is not None:
+                found.append(suggestion)
+                if len(found) == limit:
+                    break
+        return found
+
+    def _backed(self, name: str, score: float, row: int | None, ranking: Ranking) -> Suggestion | None:
+        places = self.evidence(row, ranking) if row is not None else []
+        reason, cue = ranking.flow.reason(name) if ranking.flow is not None else ("", "")
+        if cue:
+            cue_places = [place for place in self.tables.flow.places.get((cue, name), [])
+                          if not _is_own(place, ranking.own_place)]
+            places = (cue_places + [p for p in places if p not in cue_places])[:3]
+        if not places and not reason:
+            return None
+        return Suggestion(name, score, places, reason)
 
     def evidence(self, row: int, ranking: Ranking, limit: int = 3) -> list[tuple[str, int]]:
         """Places in the team's code where a name is used in the most similar contexts.
@@ -676,6 +712,10 @@ class Scorer:
     def is_flagged(self, judgement: Judgement, limit: float) -> bool:
         """Whether a judgement passes a threshold, with a name to offer instead."""
         return judgement.oddness is not None and judgement.oddness > limit and bool(judgement.suggestions)
+
+
+def _is_own(place: tuple[str, int], own: tuple[str, int, int] | None) -> bool:
+    return own is not None and place[0] == own[0] and own[1] <= place[1] <= own[2]
 
 
 def dominant_style(names: dict[str, float], default: str = "snake") -> str:

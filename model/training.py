@@ -18,8 +18,10 @@ import numpy as np
 from .corpus import Corpus, SourceFile
 from .counts import FileCounts, build_tables, count_file, forget_file
 from .flow import build_index
+from .overrides import inherited_from, repository_classes
 from .reranking import TABLE_FEATURES, Reranker, fit_reranker, shortlist_features
 from .scopes import Variable
+from .suppression import is_kept
 from .scoring import (IGNORED_NAMES, Detector, NameTables, Weights, allowed_mask, detection_features,
                       fit_detector, name_fit, rank_in_batches)
 from .vocabulary import Vocabulary, build_vocabulary, count_tokens
@@ -234,6 +236,12 @@ def _draw(seed: int, path: str) -> int:
     return int.from_bytes(hashlib.sha256(f"{seed}:{path}".encode()).digest()[:8], "big")
 
 
+def judged_variables(tables: NameTables, source: SourceFile) -> list[Variable]:
+    """The variables whose names are the team's to choose (not dictated by a base, a protocol...)."""
+    return [v for v in source.variables if v.name not in IGNORED_NAMES and not v.dictated and not (
+        v.owner and v.kind == "parameter" and inherited_from(v.owner, v.function, source.facts, tables.classes))]
+
+
 def collect_examples(tables: NameTables, files: list[SourceFile], shares: dict[str, FileCounts], seed: int,
                      weights: Weights | None = None, background: frozenset[str] = frozenset()) -> Examples:
     """Real variables and one seeded misname each, every file scored without its own share of the counts."""
@@ -245,7 +253,7 @@ def collect_examples(tables: NameTables, files: list[SourceFile], shares: dict[s
         examples.file_lines.append(source.lines)
         examples.file_languages.append(source.language)
         examples.team.append(source.path not in background)
-        judged = [v for v in source.variables if v.name not in IGNORED_NAMES and not v.dictated]
+        judged = judged_variables(tables, source)
         if not judged:
             continue
         holdout, ids = forget_file(tables, source, shares[source.path].weight, share=shares[source.path])
@@ -281,6 +289,26 @@ def collect_examples(tables: NameTables, files: list[SourceFile], shares: dict[s
     return examples
 
 
+KEPT_WEIGHT = 5  # a name the team kept on purpose counts as this many fitting names for the detector
+
+
+def kept_examples(tables: NameTables, files: list[SourceFile], shares: dict[str, FileCounts],
+                  accepted: dict[str, list[str]] | None, weights: Weights | None = None) -> list[np.ndarray]:
+    """Detection features of every name the team kept on purpose, each scored as if its file were unseen."""
+    found = []
+    for source in files:
+        kept = [v for v in judged_variables(tables, source) if is_kept(source, v, accepted)]
+        if not kept:
+            continue
+        holdout, ids = forget_file(tables, source, share=shares[source.path])
+        for variable, ranking in zip(kept, rank_in_batches(tables, source, kept, ids, weights, holdout)):
+            fit = name_fit(tables, ranking, variable.name, weights) if ranking is not None else None
+            if fit is not None:
+                allowed = allowed_mask(tables, ranking, variable.bound_names, variable.name)
+                found.append(detection_features(tables, ranking, allowed, fit, variable.name, variable))
+    return found
+
+
 @dataclass
 class TrainedModel:
     """Everything a model bundle holds, before it is written."""
@@ -296,8 +324,12 @@ class TrainedModel:
     languages: dict = field(default_factory=dict)  # per language: lines, threshold, why there is none
 
 
-def train(corpus: Corpus, settings: TrainSettings, progress=None, background: Corpus | None = None) -> TrainedModel:
-    """Vocabulary, embeddings, name tables, detector, re-ranker and thresholds from a lexed corpus."""
+def train(corpus: Corpus, settings: TrainSettings, progress=None, background: Corpus | None = None,
+          accepted: dict[str, list[str]] | None = None) -> TrainedModel:
+    """Vocabulary, embeddings, name tables, detector, re-ranker and thresholds from a lexed corpus.
+
+    Names the team kept on purpose (keep-name comments, `accepted` names) teach the detector
+    what fits."""
     started = time.monotonic()
     background_files = background.files if background else []
     background_paths = frozenset(f.path for f in background_files)
@@ -314,12 +346,14 @@ def train(corpus: Corpus, settings: TrainSettings, progress=None, background: Co
                           settings.positional_counts, settings.seed, background_paths)
     tables.min_count = settings.min_count
     tables.trained_paths = frozenset(f.path for f in corpus.files)
+    tables.classes = repository_classes(corpus.files)
     if settings.use_flow:
         tables.flow = build_index(everything, background_paths, team_subtokens(corpus.files),
                                   settings.background_weight)
     sample = sample_files(corpus.files, background_files, settings.examples_per_language, settings.seed)
     examples = collect_examples(tables, sample, shares, settings.seed, settings.weights, background_paths)
-    calibrated = calibrate_model(examples, corpus, settings)
+    kept = kept_examples(tables, corpus.files, shares, accepted, settings.weights)
+    calibrated = calibrate_model(examples, corpus, settings, kept)
     finished = time.monotonic()
     return TrainedModel(
         vocabulary, tables, calibrated.detector, calibrated.thresholds, calibrated.quality,
@@ -341,7 +375,8 @@ class Calibration:
     languages: dict
 
 
-def calibrate_model(examples: Examples, corpus: Corpus, settings: TrainSettings) -> Calibration:
+def calibrate_model(examples: Examples, corpus: Corpus, settings: TrainSettings,
+                    kept: list[np.ndarray] | None = None) -> Calibration:
     """Fit the detector and re-ranker, set each language's threshold, and measure quality.
 
     Quality and thresholds use cross-fitted scores: each file's examples are scored by a
@@ -356,7 +391,11 @@ def calibrate_model(examples: Examples, corpus: Corpus, settings: TrainSettings)
     features = np.array(examples.features).reshape(len(labels), -1)
     detector, oddness = None, features[:, 0] if len(labels) else np.zeros(0)
     if settings.use_detector and labels.size >= 20 and 0 < labels.sum() < labels.size:
-        detector = fit_detector(features, labels)
+        fit_on, fit_labels = features, labels
+        if kept:
+            fit_on = np.vstack([features] + [np.array(kept)] * KEPT_WEIGHT)
+            fit_labels = np.concatenate([labels, np.zeros(len(kept) * KEPT_WEIGHT)])
+        detector = fit_detector(fit_on, fit_labels)
         oddness = _cross_fitted(features, labels, folds[np.array(examples.example_files, dtype=np.int64)],
                                 detector)
     languages = language_lines(corpus)
@@ -397,6 +436,8 @@ def calibrate_model(examples: Examples, corpus: Corpus, settings: TrainSettings)
         quality["recall_at_threshold"] = round(recalled / seeded, 4)
         quality["false_alarms_per_kloc"] = round(flagged_clean * 1000 / max(clean_lines, 1), 3)
     quality["calibration_lines"] = examples.lines
+    if kept:
+        quality["kept_names"] = len(kept)
     return Calibration(detector, reranker, thresholds, quality, report)
 
 

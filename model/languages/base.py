@@ -121,6 +121,13 @@ class Language:
         """Whether a function whose header spans these tokens can be called from other modules."""
         return False
 
+    def dictated_by(self, tokens: list[Token], header: range, enclosing: range) -> str:
+        """Why a function's parameter names are not its own to choose (it overrides a base's), or ""."""
+        texts = {tokens[k].text for k in header}
+        if "override" in texts or "@Override" in texts:
+            return "it overrides a base's method"
+        return ""
+
 
 # --- helpers the language modules share -------------------------------------------------
 

@@ -80,6 +80,12 @@ class Rust(Language):
     def is_public_function(self, tokens: list[Token], header: range) -> bool:
         return any(tokens[k].text == "pub" for k in header)
 
+    def dictated_by(self, tokens: list[Token], header: range, enclosing: range) -> str:
+        texts = [tokens[k].text for k in enclosing]
+        if "impl" in texts and "for" in texts:
+            return "it implements a trait's method"
+        return ""
+
 
 def _closure_parameters(tokens: list[Token], closing: int) -> list[int]:
     """A closure's parameters, `|a, (b, c)| {`, given its second "|"."""
