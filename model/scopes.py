@@ -7,6 +7,7 @@ from __future__ import annotations
 import bisect
 from dataclasses import dataclass, field
 
+from .token_flow import token_cues
 from .tokens import NAME, OPERATOR, Token
 
 PARAMETER = "parameter"
@@ -76,6 +77,8 @@ def token_variables(tokens: list[Token], language) -> list[Variable]:
     header_block: dict[int, int] = {}
     public_blocks: set[int] = set()
     dictated_blocks: dict[int, str] = {}  # why a function's parameter names are not its own to choose
+    function_blocks: dict[int, str] = {}  # a function body's block -> the function's name
+    parameter_positions: dict[int, tuple[str, int]] = {}
     for block_id, block in enumerate(blocks):
         if block.start <= 0 or block.is_type_body:
             continue
@@ -84,8 +87,13 @@ def token_variables(tokens: list[Token], language) -> list[Variable]:
         if starts and tokens[starts[0]].text in language.scoped_headers:
             header_block.update((k, block_id) for k in header)
         parameters = language.parameters_before(tokens, block.start)
-        for index in parameters:
+        function = language.function_name(tokens, block.start) if parameters or header else ""
+        if parameters or function:
+            function_blocks[block_id] = function
+        for position, index in enumerate(parameters):
             declarations.append((index, block_id, PARAMETER))
+            if function:
+                parameter_positions[index] = (function, position)
         if parameters and language.is_public_function(tokens, header):
             public_blocks.add(block_id)
         if parameters:
@@ -152,8 +160,21 @@ def token_variables(tokens: list[Token], language) -> list[Variable]:
             bound_names=bound,
             scope_kind="block",
             shorthand=tuple(shorthand),
+            function=function_blocks.get(function_start, ""),
         ))
+    returns = {j + 1: name for j, t in enumerate(tokens) if t.text == "return" and j + 1 < count
+               and (name := _function_name(blocks, block_of[j], function_blocks))}
+    token_cues(tokens, variables, language, parameter_positions, returns)
     return variables
+
+
+def _function_name(blocks: list[Block], block_id: int, function_blocks: dict[int, str]) -> str:
+    """The name of the innermost function around a block ("" when that function is anonymous)."""
+    while block_id >= 0:
+        if block_id in function_blocks:
+            return function_blocks[block_id]
+        block_id = blocks[block_id].parent
+    return ""
 
 
 def blocks_of(tokens: list[Token], language) -> tuple[list[Block], list[int]]:

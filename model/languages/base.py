@@ -33,6 +33,15 @@ class Language:
     member_access = frozenset({"."})  # tokens after which a name is a member, not a variable
     declaration_words: frozenset[str] = frozenset()  # `let`, `var`: the next name is declared
     declaration_operators: frozenset[str] = frozenset()  # operators that may start a declaration (`|x|`)
+    # Name flow (token_flow.py): what binds a value, what introduces a loop's collection, where a
+    # declared type is written ("before" the name, "after" it, after a "colon", or "" for none).
+    assignment_operators = frozenset({"="})
+    loop_words: frozenset[str] = frozenset()
+    adding_methods = frozenset({"push", "add", "append", "put", "insert", "push_back", "Add", "offer"})
+    type_position = ""
+    collection_types = frozenset({"List", "ArrayList", "LinkedList", "Set", "HashSet", "Collection", "Iterable",
+                                  "Vec", "VecDeque", "Array", "ReadonlyArray", "IEnumerable", "IList", "ICollection",
+                                  "vector", "Sequence", "Stream", "Iterator", "Slice"})
     # A block whose header starts with one of these owns the names its header declares.
     scoped_headers = frozenset({"for", "foreach", "catch", "while", "using", "switch", "|"})
 
@@ -120,6 +129,13 @@ class Language:
     def is_public_function(self, tokens: list[Token], header: range) -> bool:
         """Whether a function whose header spans these tokens can be called from other modules."""
         return False
+
+    def function_name(self, tokens: list[Token], brace: int) -> str:
+        """The name of the function whose body opens at `brace` ("" for a lambda or a block)."""
+        found = self.parameter_list(tokens, brace)
+        if found is None or found[0] == 0 or tokens[found[0] - 1].kind != NAME:
+            return ""
+        return tokens[found[0] - 1].text
 
     def dictated_by(self, tokens: list[Token], header: range, enclosing: range) -> str:
         """Why a function's parameter names are not its own to choose (it overrides a base's), or ""."""

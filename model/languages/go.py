@@ -27,6 +27,8 @@ class Go(Language):
     defining_words = frozenset({"func"})
     binding_before = (re.compile(r"^\s*$"), re.compile(r"\bvar\s+$"), re.compile(r"\bfor\s+$"))
     declaration_words = frozenset({"var"})
+    assignment_operators = frozenset({"=", ":="})
+    type_position = "after"
     scoped_headers = frozenset({"for", "switch", "select"})
 
     def declarations(self, tokens: list[Token], i: int) -> list[int]:
@@ -50,6 +52,14 @@ class Go(Language):
 
     def parameters_before(self, tokens: list[Token], brace: int) -> list[int]:
         """A function's parameters and named results: `func (r *T) Name(a, b int) (n int, err error) {`."""
+        _, lists = self._signature(tokens, brace)
+        return [index for opening, closing in lists for index in self.parameters(tokens, opening, closing)]
+
+    def function_name(self, tokens: list[Token], brace: int) -> str:
+        return self._signature(tokens, brace)[0]
+
+    def _signature(self, tokens: list[Token], brace: int) -> tuple[str, list[tuple[int, int]]]:
+        """The function's name ("" for a literal) and its parameter and result lists."""
         j, depth = brace - 1, 0
         while j >= 0:
             text = tokens[j].text
@@ -58,24 +68,26 @@ class Go(Language):
             elif text in ("(", "["):
                 depth -= 1
                 if depth < 0:
-                    return []
+                    return "", []
             elif depth == 0 and text == "func" and tokens[j].kind == KEYWORD:
                 break
             elif depth == 0 and text in _STOPS:
-                return []
+                return "", []
             j -= 1
         if j < 0:
-            return []
-        k = j + 1
+            return "", []
+        k, name = j + 1, ""
         lists: list[tuple[int, int]] = []
         if k < brace and tokens[k].text == "(":
             first = (k, matching_close(tokens, k))
             k = first[1] + 1
             if k + 1 < brace and tokens[k].kind == NAME and tokens[k + 1].text in ("(", "["):
+                name = tokens[k].text
                 k += 1  # a method: the first list was its receiver
             else:
                 lists.append(first)
         elif k < brace and tokens[k].kind == NAME:
+            name = tokens[k].text
             k += 1
         if k < brace and tokens[k].text == "[":  # type parameters
             k = matching_close(tokens, k) + 1
@@ -84,7 +96,7 @@ class Go(Language):
             k = lists[-1][1] + 1
         if k < brace and tokens[k].text == "(":  # named results are variables of the body too
             lists.append((k, matching_close(tokens, k)))
-        return [index for opening, closing in lists for index in self.parameters(tokens, opening, closing)]
+        return name, lists
 
     def parameters(self, tokens: list[Token], opening: int, closing: int) -> list[int]:
         # Either every parameter has a name or none has: `(a, b int)` names two, `(io.Reader, error)` none.

@@ -15,6 +15,8 @@ class TypedLanguage(Language):
     """A language whose declarations put the type first: `Type name = value;`."""
 
     declaration_followers = frozenset({"=", ";", ":"})  # what may follow the declared name
+    type_position = "before"
+    loop_words = frozenset({":"})
 
     def declarations(self, tokens: list[Token], i: int) -> list[int]:
         token = tokens[i]

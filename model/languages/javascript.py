@@ -27,6 +27,7 @@ class JavaScript(Language):
     defining_words = frozenset({"function"})
     binding_before = (re.compile(r"\b(let|const|var)\s+$"), re.compile(r"\bfunction\s*\w*\s*\(([^)]*,)?\s*$"))
     declaration_words = frozenset({"let", "const", "var"})
+    loop_words = frozenset({"of", "in"})
 
     def declarations(self, tokens: list[Token], i: int) -> list[int]:
         token = tokens[i]
@@ -69,6 +70,7 @@ class TypeScript(JavaScript):
     reserved = _RESERVED | words("any boolean number string symbol never unknown object type namespace declare "
                                  "readonly keyof as is")
     generated_suffixes = (".generated.ts", ".d.ts")
+    type_position = "colon"
 
 
 def declarators(tokens: list[Token], k: int) -> list[int]:

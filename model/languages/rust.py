@@ -26,6 +26,8 @@ class Rust(Language):
     defining_words = frozenset({"fn"})
     binding_before = (re.compile(r"\blet\s+(mut\s+)?$"),)
     member_access = frozenset({".", "::"})
+    loop_words = frozenset({"in"})
+    type_position = "colon"
     scoped_headers = frozenset({"for", "while", "if"})
 
     def declarations(self, tokens: list[Token], i: int) -> list[int]:
@@ -67,6 +69,14 @@ class Rust(Language):
         closing = matching_close(tokens, k)
         return [index for group in parameter_groups(tokens, k, closing)
                 for index in pattern_names(tokens, group[0], _group_pattern_end(tokens, group))]
+
+    def function_name(self, tokens: list[Token], brace: int) -> str:
+        j = brace - 1
+        while j > 0 and tokens[j].text not in ("{", "}", ";"):
+            if tokens[j].text == "fn" and tokens[j].kind == KEYWORD and tokens[j + 1].kind == NAME:
+                return tokens[j + 1].text
+            j -= 1
+        return ""
 
     def occurrence_role(self, tokens: list[Token], j: int, opening: int) -> str:
         # `Config { timeout: t }` and `Config { timeout }` in literals and patterns.
