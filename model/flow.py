@@ -282,21 +282,19 @@ class Flow:
     allowed: object  # name -> whether it may name this variable
     index: FlowIndex | None = None
 
+    def __post_init__(self) -> None:
+        own = frozenset(index_cues(self.cues))
+        self._own_given = [counts for cue, counts in self.given if cue in own]
+        self._implied_parts = {name: frozenset(split_identifier(name)) for name in self.implied}
+
     def fit(self, name: str) -> float:
         """How much likelier the names given at the variable's own cues make this name than its
         overall frequency does (a sum of smoothed log ratios; 0 without cues)."""
-        if self.index is None:
+        if self.index is None or not self._own_given:
             return 0.0
         overall = self.index.name_share(name)
-        total = 0.0
-        for cue, counts in self.given:
-            if cue in self.own:
-                total += math.log((counts.get(name) + PRIOR * overall) / ((counts.total + PRIOR) * overall))
-        return total
-
-    @property
-    def own(self) -> frozenset[str]:
-        return frozenset(index_cues(self.cues))
+        return sum(math.log((counts.get(name) + PRIOR * overall) / ((counts.total + PRIOR) * overall))
+                   for counts in self._own_given)
 
     def candidates(self, limit_per_cue: int = 8) -> list[str]:
         """Names the cues put forward: the team's names at each cue, then names the words imply."""
@@ -319,12 +317,13 @@ class Flow:
                 total += count
         cues = self.implied.get(name, [])
         strong = sum(1 for cue in cues if cue.split(":", 1)[0] in STRONG_KINDS)
-        parts = set(split_identifier(name))
         partial = 0.0
-        if parts:
-            for other in self.implied:
-                if other != name:
-                    partial = max(partial, len(parts & set(split_identifier(other))) / len(parts))
+        if self._implied_parts:
+            parts = set(split_identifier(name))
+            if parts:
+                for other, other_parts in self._implied_parts.items():
+                    if other != name:
+                        partial = max(partial, len(parts & other_parts) / len(parts))
         return [share, math.log1p(total), float(strong), float(len(cues) - strong), partial, float(len(self.cues)),
                 self.fit(name)]
 

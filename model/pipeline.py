@@ -6,6 +6,7 @@ import gc
 import hashlib
 import json
 import math
+import shutil
 import subprocess
 import sysconfig
 import time
@@ -13,8 +14,13 @@ from collections import Counter
 from dataclasses import dataclass, field
 from pathlib import Path
 
+import numpy as np
+
 from . import bundle, persistence
 from .corpus import Corpus, Settings, TokenCache, discover, load_corpus, read_settings
+from .reranking import FEATURES
+from .reuse import ExampleStore, PreviousVectors, examples_key
+from .scoring import FEATURE_NAMES
 from .training import TrainSettings, settings_dict, train
 from .vocab_report import model_coverage
 
@@ -109,8 +115,12 @@ def gate(new_quality: dict, current_quality: dict, policy: GatePolicy) -> tuple[
 
 def train_repository(path: Path, store: Path, settings: TrainSettings, policy: GatePolicy | None = None,
                      keep: int = 4, if_changed: bool = False, report=None,
-                     background: list[str] | None = None) -> TrainResult:
-    """Train on the code under path and promote the model if it passes the quality gate."""
+                     background: list[str] | None = None, from_scratch: bool = False) -> TrainResult:
+    """Train on the code under path and promote the model if it passes the quality gate.
+
+    Unless `from_scratch`, the embeddings continue from the current model's vectors and each
+    unchanged file's examples are reused while the code has changed little (see reuse.py).
+    """
     policy = policy or GatePolicy()
     report = report or (lambda *args: None)
     started = time.monotonic()
@@ -126,10 +136,16 @@ def train_repository(path: Path, store: Path, settings: TrainSettings, policy: G
     corpus_seconds = time.monotonic() - started
     current_id = bundle.current_model_id(store)
     current_manifest = {}
+    previous = None
     if current_id:
         try:
-            current_manifest = bundle.load_model(store / "models" / current_id).manifest
-        except bundle.ModelError:
+            current = bundle.load_model(store / "models" / current_id)
+            current_manifest = current.manifest
+            if not from_scratch:
+                previous = PreviousVectors(current.documents["vocabulary"]["tokens"],
+                                           np.asarray(current.arrays["input_vectors"]),
+                                           np.asarray(current.arrays["output_vectors"]))
+        except (bundle.ModelError, KeyError):
             current_manifest = {}
     corpus_hash = fingerprint(corpus)
     if if_changed and current_manifest.get("corpus_fingerprint") == corpus_hash:
@@ -141,8 +157,15 @@ def train_repository(path: Path, store: Path, settings: TrainSettings, policy: G
     # them out of the garbage collector's walks while the model is trained.
     gc.freeze()
     try:
+        examples_directory = store / "cache" / "examples"
+        if from_scratch:
+            shutil.rmtree(examples_directory, ignore_errors=True)
+        examples_store = ExampleStore(examples_directory, examples_key(settings_dict(settings), FEATURE_NAMES + FEATURES,
+                                                                       list(background or [])),
+                                      [f.digest for f in corpus.files])
         trained = train(corpus, settings, progress=lambda *args: report("epoch", *args), background=extra,
-                        accepted=repository_settings.accepted_names)
+                        accepted=repository_settings.accepted_names, previous=previous,
+                        examples_store=examples_store)
     finally:
         gc.unfreeze()
     identifiers = Counter(t.text for f in corpus.files for t in f.tokens if t.kind == "name")
@@ -155,6 +178,7 @@ def train_repository(path: Path, store: Path, settings: TrainSettings, policy: G
         "settings": settings_dict(settings),
         "background": list(background or []),
         "skipped": corpus.skipped,
+        "reuse": trained.reuse,
     }
     directory = persistence.save(store, trained, manifest)
     model_id = directory.name

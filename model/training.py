@@ -19,11 +19,12 @@ from .corpus import Corpus, SourceFile
 from .counts import FileCounts, build_tables, count_file, forget_file
 from .flow import build_index
 from .overrides import inherited_from, repository_classes
+from .reuse import ExampleStore, PreviousVectors
 from .reranking import TABLE_FEATURES, Reranker, fit_reranker, shortlist_features
 from .scopes import Variable
 from .suppression import is_kept
 from .scoring import (IGNORED_NAMES, Detector, NameTables, Weights, allowed_mask, detection_features,
-                      fit_detector, name_fit, rank_in_batches)
+                      FEATURE_NAMES, fit_detector, name_fit, rank_in_batches)
 from .vocabulary import Vocabulary, build_vocabulary, count_tokens
 
 MAX_SENTENCE = 10_000  # gensim silently truncates longer sentences
@@ -40,6 +41,7 @@ class TrainSettings:
     vector_size: int = 64
     window: int = 5
     epochs: int = 5
+    warm_epochs: int = 2  # epochs when continuing from the current model's vectors
     negative: int = 5
     seed: int = 1
     workers: int = field(default_factory=lambda: os.cpu_count() or 1)
@@ -72,8 +74,12 @@ def split_files(paths: list[str], share: float, seed: int) -> tuple[set[str], se
 
 
 def train_embeddings(files: list[SourceFile], vocabulary: Vocabulary, settings: TrainSettings,
-                     progress=None) -> tuple[np.ndarray, np.ndarray]:
-    """CBOW with negative sampling; returns input and output vectors in the vocabulary's row order."""
+                     progress=None, previous: PreviousVectors | None = None) -> tuple[np.ndarray, np.ndarray]:
+    """CBOW with negative sampling; returns input and output vectors in the vocabulary's row order.
+
+    With `previous` vectors (last week's model), tokens it knew start from them and training
+    runs `settings.warm_epochs` epochs instead of `settings.epochs`.
+    """
     from gensim.models import Word2Vec
     from gensim.models.callbacks import CallbackAny2Vec
 
@@ -86,6 +92,8 @@ def train_embeddings(files: list[SourceFile], vocabulary: Vocabulary, settings: 
             sentences.append(texts[start:start + MAX_SENTENCE])
     total_words = sum(len(s) for s in sentences)
 
+    epochs = settings.warm_epochs if previous is not None else settings.epochs
+
     class Progress(CallbackAny2Vec):
         def __init__(self):
             self.epoch = 0
@@ -95,14 +103,21 @@ def train_embeddings(files: list[SourceFile], vocabulary: Vocabulary, settings: 
             self.epoch += 1
             if progress:
                 elapsed = time.monotonic() - self.started
-                progress(self.epoch, settings.epochs, total_words * self.epoch / max(elapsed, 1e-9),
-                         elapsed / self.epoch * (settings.epochs - self.epoch))
+                progress(self.epoch, epochs, total_words * self.epoch / max(elapsed, 1e-9),
+                         elapsed / self.epoch * (epochs - self.epoch))
 
     model = Word2Vec(vector_size=settings.vector_size, window=settings.window, min_count=1, sg=0,
                      negative=settings.negative, hs=0, sample=0, workers=settings.workers, seed=settings.seed,
-                     epochs=settings.epochs)
+                     epochs=epochs)
     model.build_vocab(sentences)
-    model.train(sentences, total_examples=len(sentences), epochs=settings.epochs, callbacks=[Progress()])
+    if previous is not None and previous.inputs.shape[1] == settings.vector_size:
+        known = {token: row for row, token in enumerate(previous.tokens)}
+        for token, gensim_row in model.wv.key_to_index.items():
+            row = known.get(token)
+            if row is not None:
+                model.wv.vectors[gensim_row] = previous.inputs[row]
+                model.syn1neg[gensim_row] = previous.outputs[row]
+    model.train(sentences, total_examples=len(sentences), epochs=epochs, callbacks=[Progress()])
     dimensions = settings.vector_size
     inputs = np.zeros((len(vocabulary), dimensions), dtype=np.float32)
     outputs = np.zeros((len(vocabulary), dimensions), dtype=np.float32)
@@ -242,32 +257,34 @@ def judged_variables(tables: NameTables, source: SourceFile) -> list[Variable]:
         v.owner and v.kind == "parameter" and inherited_from(v.owner, v.function, source.facts, tables.classes))]
 
 
-def collect_examples(tables: NameTables, files: list[SourceFile], shares: dict[str, FileCounts], seed: int,
-                     weights: Weights | None = None, background: frozenset[str] = frozenset()) -> Examples:
-    """Real variables and one seeded misname each, every file scored without its own share of the counts."""
-    rng = random.Random(seed)
-    examples = Examples()
-    for source in files:
-        file_number = len(examples.paths)
-        examples.paths.append(source.path)
-        examples.file_lines.append(source.lines)
-        examples.file_languages.append(source.language)
-        examples.team.append(source.path not in background)
-        judged = judged_variables(tables, source)
-        if not judged:
-            continue
-        holdout, ids = forget_file(tables, source, shares[source.path].weight, share=shares[source.path])
-        rankings = rank_in_batches(tables, source, judged, ids, weights, holdout)
+@dataclass
+class FileExamples:
+    """One file's examples: detection features and labels, and the seeded misnames' shortlists."""
+
+    features: np.ndarray  # (n, len(FEATURE_NAMES))
+    labels: np.ndarray  # (n,) 0 for a real name, 1 for a seeded misname
+    shortlists: list[tuple[np.ndarray, np.ndarray]]  # re-ranking rows and which row is the true name
+    recovered_at: list[int]  # rank of the true name by the combined score, per shortlist
+
+
+def file_examples(tables: NameTables, source: SourceFile, share: FileCounts, seed: int,
+                  weights: Weights | None = None) -> FileExamples:
+    """A file's real variables and one seeded misname each, scored without the file's own share of the counts.
+    The seeded names depend on the file alone (and the seed), so a file's examples can be kept for reuse."""
+    rng = random.Random(f"{seed}:{source.path}")
+    features, labels, shortlists, recovered = [], [], [], []
+    judged = judged_variables(tables, source)
+    if judged:
+        holdout, ids = forget_file(tables, source, share.weight, share=share)
         local_names = file_local_names(source)
-        for variable, ranking in zip(judged, rankings):
+        for variable, ranking in zip(judged, rank_in_batches(tables, source, judged, ids, weights, holdout)):
             if ranking is None:
                 continue
             fit = name_fit(tables, ranking, variable.name, weights)
             allowed = allowed_mask(tables, ranking, variable.bound_names, variable.name)
             if fit is not None:
-                examples.features.append(detection_features(tables, ranking, allowed, fit, variable.name, variable))
-                examples.labels.append(0)
-                examples.example_files.append(file_number)
+                features.append(detection_features(tables, ranking, allowed, fit, variable.name, variable))
+                labels.append(0)
             wrong = seed_misname(source, variable, rng, local_names)
             if wrong is None:
                 continue
@@ -277,15 +294,40 @@ def collect_examples(tables: NameTables, files: list[SourceFile], shares: dict[s
             listed, _, rows = shortlist_features(tables, ranking, allowed, renamed.bound_names, wrong,
                                                  weights or Weights())
             truth = np.array([name == variable.name for name in listed], dtype=float)
-            examples.shortlists.append((rows, truth))
+            shortlists.append((rows, truth))
             # Without the re-ranker, names are ranked by their combined score.
-            examples.recovered_at.append(_rank_of_truth(rows[:, 3], truth) if len(rows) else 0)
-            examples.shortlist_files.append(file_number)
+            recovered.append(_rank_of_truth(rows[:, 3], truth) if len(rows) else 0)
             fit = name_fit(tables, ranking, wrong, weights)
             if fit is not None:
-                examples.features.append(detection_features(tables, ranking, allowed, fit, wrong, renamed))
-                examples.labels.append(1)
-                examples.example_files.append(file_number)
+                features.append(detection_features(tables, ranking, allowed, fit, wrong, renamed))
+                labels.append(1)
+    return FileExamples(np.array(features, dtype=np.float64).reshape(len(features), len(FEATURE_NAMES)),
+                        np.array(labels, dtype=np.int64), shortlists, recovered)
+
+
+def collect_examples(tables: NameTables, files: list[SourceFile], shares: dict[str, FileCounts], seed: int,
+                     weights: Weights | None = None, background: frozenset[str] = frozenset(),
+                     reuse=None) -> Examples:
+    """Every sampled file's examples; `reuse(source)` may hand back a file's examples from an
+    earlier training, and is told of the ones computed afresh."""
+    examples = Examples()
+    for source in files:
+        file_number = len(examples.paths)
+        examples.paths.append(source.path)
+        examples.file_lines.append(source.lines)
+        examples.file_languages.append(source.language)
+        examples.team.append(source.path not in background)
+        found = reuse.get(source) if reuse is not None else None
+        if found is None:
+            found = file_examples(tables, source, shares[source.path], seed, weights)
+            if reuse is not None:
+                reuse.put(source, found)
+        examples.features.extend(found.features)
+        examples.labels.extend(found.labels.tolist())
+        examples.example_files.extend([file_number] * len(found.labels))
+        examples.shortlists.extend(found.shortlists)
+        examples.recovered_at.extend(found.recovered_at)
+        examples.shortlist_files.extend([file_number] * len(found.shortlists))
     return examples
 
 
@@ -322,14 +364,17 @@ class TrainedModel:
     seconds: dict
     reranker: Reranker | None = None
     languages: dict = field(default_factory=dict)  # per language: lines, threshold, why there is none
+    reuse: dict = field(default_factory=dict)  # what was taken over from the last training
 
 
 def train(corpus: Corpus, settings: TrainSettings, progress=None, background: Corpus | None = None,
-          accepted: dict[str, list[str]] | None = None) -> TrainedModel:
+          accepted: dict[str, list[str]] | None = None, previous: PreviousVectors | None = None,
+          examples_store: ExampleStore | None = None) -> TrainedModel:
     """Vocabulary, embeddings, name tables, detector, re-ranker and thresholds from a lexed corpus.
 
     Names the team kept on purpose (keep-name comments, `accepted` names) teach the detector
-    what fits."""
+    what fits. A weekly retrain passes the current model's vectors (`previous`) and a store of
+    each file's examples (see reuse.py)."""
     started = time.monotonic()
     background_files = background.files if background else []
     background_paths = frozenset(f.path for f in background_files)
@@ -337,7 +382,7 @@ def train(corpus: Corpus, settings: TrainSettings, progress=None, background: Co
     counts, kinds = count_tokens(f.tokens for f in everything)
     vocabulary = build_vocabulary(counts, kinds, settings.vocabulary_size, settings.min_count)
     counted = time.monotonic()
-    inputs, outputs = train_embeddings(everything, vocabulary, settings, progress)
+    inputs, outputs = train_embeddings(everything, vocabulary, settings, progress, previous)
     embedded = time.monotonic()
     shares = {f.path: count_file(f, vocabulary, settings.background_weight if f.path in background_paths else 1.0,
                                  settings.positional_counts) for f in everything}
@@ -351,7 +396,8 @@ def train(corpus: Corpus, settings: TrainSettings, progress=None, background: Co
         tables.flow = build_index(everything, background_paths, team_subtokens(corpus.files),
                                   settings.background_weight)
     sample = sample_files(corpus.files, background_files, settings.examples_per_language, settings.seed)
-    examples = collect_examples(tables, sample, shares, settings.seed, settings.weights, background_paths)
+    examples = collect_examples(tables, sample, shares, settings.seed, settings.weights, background_paths,
+                                examples_store)
     kept = kept_examples(tables, corpus.files, shares, accepted, settings.weights)
     calibrated = calibrate_model(examples, corpus, settings, kept)
     finished = time.monotonic()
@@ -362,6 +408,9 @@ def train(corpus: Corpus, settings: TrainSettings, progress=None, background: Co
                 "names": len(tables.names), "calibration_files": len(sample)},
         seconds={"vocabulary": round(counted - started, 2), "embeddings": round(embedded - counted, 2),
                  "names_and_calibration": round(finished - embedded, 2)},
+        reuse={"embeddings": "continued" if previous is not None else "from scratch",
+               "examples_reused": examples_store.reused if examples_store else 0,
+               "examples_computed": examples_store.computed if examples_store else len(sample)},
         reranker=calibrated.reranker, languages=calibrated.languages,
     )
 
