@@ -1,0 +1,43 @@
+"""`cognomen eval`: held-out quality of a model trained on PATH, beside two baselines."""
+
+from __future__ import annotations
+
+import json
+from pathlib import Path
+
+from cognomen.model.corpus import TokenCache, discover, load_corpus, read_settings
+from cognomen.model.evaluation import evaluate_corpus, format_table
+from cognomen.model.training import TrainSettings
+
+from .exits import OK, UsageError
+from .store import store_for
+
+
+def register(commands) -> None:
+    evaluate = commands.add_parser("eval", help="held-out quality of a model trained on PATH, beside baselines")
+    evaluate.add_argument("path", nargs="?", default=".")
+    evaluate.add_argument("--format", choices=("text", "json"), default="text")
+    evaluate.add_argument("--held-out", type=float, default=0.15, help="share of files held out (default 0.15)")
+    evaluate.add_argument("--epochs", type=int, default=5)
+    evaluate.add_argument("--seed", type=int, default=1)
+    evaluate.set_defaults(handler=run)
+
+
+def run(args) -> int:
+    path = Path(args.path)
+    if not path.is_dir():
+        raise UsageError(f"{path} is not a directory")
+    selection = discover(path.resolve(), read_settings(path))
+    if not selection.files:
+        raise UsageError(f"nothing to learn from: 0 source files under {path}")
+    corpus = load_corpus(selection, TokenCache(store_for(args, path) / "cache"))
+    settings = TrainSettings(epochs=args.epochs, seed=args.seed)
+    try:
+        result = evaluate_corpus(corpus, settings, held_share=args.held_out, seed=args.seed + 6)
+    except ValueError as error:
+        raise UsageError(str(error)) from None
+    if args.format == "json":
+        print(json.dumps(result, indent=2))
+    else:
+        print(format_table(result))
+    return OK

@@ -1,0 +1,57 @@
+"""`cognomen models`: the trained models in the store, and switching the current one."""
+
+from __future__ import annotations
+
+import json
+
+from cognomen.model import bundle
+from cognomen.model.bundle import ModelError
+
+from .exits import OK, UsageError
+from .store import store_for
+
+
+def register(commands) -> None:
+    models = commands.add_parser("models", help="list trained models, or switch with: models use ID")
+    models.add_argument("action", nargs="?", choices=("list", "use"), default="list")
+    models.add_argument("model_id", nargs="?")
+    models.add_argument("--format", choices=("text", "json"), default="text")
+    models.set_defaults(handler=run)
+
+
+def run(args) -> int:
+    store = store_for(args)
+    if args.action == "use":
+        if not args.model_id:
+            raise UsageError("cognomen models use needs a model id (see cognomen models)")
+        if not (store / "models" / args.model_id).is_dir() or args.model_id.startswith("."):
+            raise UsageError(f"no model {args.model_id} in {store}")
+        try:
+            bundle.promote(store, args.model_id)
+        except ModelError as error:
+            raise UsageError(str(error)) from None
+        print(f"current model is now {args.model_id}")
+        return OK
+    manifests = bundle.list_models(store)
+    if not manifests:
+        raise UsageError(f"no model found in {store}; run cognomen train")
+    current = bundle.current_model_id(store)
+    if args.format == "json":
+        print(json.dumps({"current": current, "models": [
+            {k: m.get(k) for k in ("model_id", "created", "source_commit", "counts", "quality", "threshold",
+                                   "coverage")} for m in manifests]}, indent=2))
+        return OK
+    print(f"{'':2}{'model':24} {'created':20} {'commit':8} {'files':>6} {'vocabulary':>10} "
+          f"{'recovery@5':>10} {'recall':>7} {'coverage':>8}")
+    for m in manifests:
+        counts, quality = m.get("counts", {}), m.get("quality", {})
+        coverage = m.get("coverage", {}).get("occurrence_share")
+        print(f"{'*' if m.get('model_id') == current else ' ':2}{m.get('model_id', '?'):24} "
+              f"{m.get('created', ''):20} {(m.get('source_commit') or '-')[:8]:8} {counts.get('files', 0):>6} "
+              f"{counts.get('vocabulary', 0):>10} {_figure(quality.get('recovery_at_5')):>10} "
+              f"{_figure(quality.get('recall_at_threshold')):>7} {_figure(coverage):>8}")
+    return OK
+
+
+def _figure(value) -> str:
+    return "-" if value is None else f"{value:.3f}"

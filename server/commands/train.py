@@ -1,0 +1,116 @@
+"""`cognomen train`: learn from a repository and promote the new model if it is no worse."""
+
+from __future__ import annotations
+
+import time
+from pathlib import Path
+
+from cognomen.model.pipeline import GatePolicy, NothingToLearn, train_repository
+from cognomen.model.training import TrainSettings
+
+from .exits import GATE_REFUSED, INTERRUPTED, OK, UsageError, say
+from .store import store_for
+
+
+def register(commands) -> None:
+    train = commands.add_parser("train", help="learn from the code under PATH and promote the new model")
+    train.add_argument("path", nargs="?", default=".")
+    train.add_argument("--vocabulary-size", type=int, default=50_000, help="top-N tokens kept (default 50000)")
+    train.add_argument("--min-count", type=int, default=2, help="tokens seen fewer times become unknown")
+    train.add_argument("--epochs", type=int, default=5)
+    train.add_argument("--seed", type=int, default=1)
+    train.add_argument("--flag-budget", type=float, default=1.0,
+                       help="flags allowed per 1,000 lines of clean code when calibrating (default 1)")
+    train.add_argument("--if-changed", action="store_true", help="do nothing when the code has not changed")
+    train.add_argument("--force", action="store_true", help="promote even if the quality gate refuses")
+    train.add_argument("--tolerance", type=float, default=0.02,
+                       help="largest drop in recovery@5 or recall the gate accepts (default 0.02)")
+    train.add_argument("--keep", type=int, default=4, help="models to keep in the store (default 4)")
+    train.add_argument("--background", action="append", default=[], metavar="DIR",
+                       help="more code to learn general naming from, at a lower weight; 'stdlib' means the "
+                            "standard library of this Python (useful for small repositories; repeatable)")
+    train.add_argument("--quiet", action="store_true", help="no progress on stderr")
+    train.add_argument("--reproducible", action="store_true",
+                       help="train the embeddings on one thread: the same code gives the same model, bit for bit "
+                            "(about twice gensim's time; several threads finish in a different order each run)")
+    train.set_defaults(handler=run)
+
+
+class TrainReport:
+    """Progress lines on stderr: files, lexing, epochs with tokens per second and time left."""
+
+    def __init__(self, quiet: bool):
+        self.quiet = quiet
+        self.last = 0.0
+
+    def __call__(self, event: str, *args) -> None:
+        if self.quiet:
+            return
+        now = time.monotonic()
+        if event == "files":
+            say(f"found {args[0]} source files")
+        elif event == "lexing":
+            done, total = args
+            if done == total or now - self.last > 1.0:
+                self.last = now
+                say(f"lexing {done}/{total} changed files")
+        elif event == "training":
+            corpus = args[0]
+            say(f"learning from {len(corpus.files)} files, {corpus.lines:,} lines, {corpus.tokens:,} tokens "
+                f"({corpus.cached} unchanged files reused from the cache)")
+        elif event == "epoch":
+            epoch, epochs, speed, left = args
+            say(f"embeddings: epoch {epoch}/{epochs}, {speed:,.0f} tokens/s, about {left:.0f} s left")
+
+
+def run(args) -> int:
+    path = Path(args.path)
+    if not path.is_dir():
+        raise UsageError(f"{path} is not a directory")
+    store = store_for(args, path)
+    settings = TrainSettings(vocabulary_size=args.vocabulary_size, min_count=args.min_count,
+                             epochs=args.epochs, flag_budget=args.flag_budget, seed=args.seed)
+    if args.reproducible:
+        settings.workers = 1
+    policy = GatePolicy(tolerance=args.tolerance, force=args.force)
+    try:
+        result = train_repository(path.resolve(), store, settings, policy, keep=args.keep,
+                                  if_changed=args.if_changed, report=TrainReport(args.quiet),
+                                  background=args.background)
+    except NothingToLearn as error:
+        raise UsageError(str(error)) from None
+    except KeyboardInterrupt:
+        say("training stopped; the current model is unchanged")
+        return INTERRUPTED
+    if result.unchanged:
+        print(f"nothing to do: {result.reason} ({result.model_id})")
+        return OK
+    print(summary(result, settings))
+    return OK if result.promoted else GATE_REFUSED
+
+
+def summary(result, settings: TrainSettings) -> str:
+    """What was learned from what, the threshold, held-out quality and time taken."""
+    corpus = result.corpus
+    manifest = result.manifest
+    quality = manifest.get("quality", {})
+    counts = manifest.get("counts", {})
+    skipped = ", ".join(f"{n} {reason}" for reason, n in sorted(corpus.skipped.items())) or "none"
+    lines = [
+        f"model {result.model_id}: {result.reason}",
+        f"  files      {counts.get('files', 0):,} learned, skipped: {skipped}"
+        + (f"; {counts['background_files']:,} background files" if counts.get("background_files") else ""),
+        f"  lines      {counts.get('lines', 0):,}",
+        f"  tokens     {counts.get('tokens', 0):,}",
+        f"  vocabulary {counts.get('vocabulary', 0):,} tokens, {counts.get('names', 0):,} candidate names",
+        (f"  threshold  {manifest['threshold']:.3f} (about {settings.flag_budget:g} flag per 1,000 lines)"
+         if manifest.get("threshold") is not None else
+         f"  threshold  none: too little held-out code ({quality.get('calibration_lines', 0):,} lines) to "
+         f"calibrate flags; suggestions only (more code, or --background stdlib for Python, fixes this)"),
+    ]
+    if quality:
+        lines.append("  held out   " + ", ".join(f"{k} {v}" for k, v in quality.items()))
+    lines.append("  seconds    " + ", ".join(f"{k} {v}" for k, v in result.seconds.items()))
+    if result.pruned:
+        lines.append(f"  pruned     {', '.join(result.pruned)}")
+    return "\n".join(lines)
