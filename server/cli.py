@@ -10,14 +10,19 @@ from .commands import COMMANDS
 from .commands.exits import INTERRUPTED, OK, USAGE, UsageError, say
 from .memory import keep_freed_memory
 
+MODEL_DIR_HELP = "model store (default: .cognomen at the repository root)"
+
 
 def build_parser() -> argparse.ArgumentParser:
     parser = argparse.ArgumentParser(prog="cognomen", description="Learns your team's naming from its own "
                                      "code and flags variable names that do not fit how they are used.")
-    parser.add_argument("--model-dir", help="model store (default: .cognomen at the repository root)")
+    parser.add_argument("--model-dir", help=MODEL_DIR_HELP)
     commands = parser.add_subparsers(dest="command", metavar="COMMAND")
     for command in COMMANDS:
         command.register(commands)
+    for subcommand in commands.choices.values():
+        # Also after the subcommand; left out there, it keeps the value given before it.
+        subcommand.add_argument("--model-dir", default=argparse.SUPPRESS, help=MODEL_DIR_HELP)
     return parser
 
 

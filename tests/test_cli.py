@@ -92,3 +92,24 @@ def test_models_lists_the_current_model(demo_copy):
     result = run_cli("models", "--format", "json", cwd=demo_copy)
     listing = json.loads(result.stdout)
     assert listing["current"] == listing["models"][0]["model_id"]
+
+
+def test_model_dir_before_or_after_any_subcommand(demo_copy, tmp_path):
+    from cognomen.server.cli import build_parser
+
+    parser = build_parser()
+    subcommands = parser._subparsers._group_actions[0].choices
+    minimal = {"suggest": ["a.py:1:1"], "check": ["a.py"]}
+    for name in subcommands:
+        words = [name, *minimal.get(name, [])]
+        assert parser.parse_args([*words, "--model-dir", "after"]).model_dir == "after", name
+        assert parser.parse_args(["--model-dir", "before", *words]).model_dir == "before", name
+        assert parser.parse_args(words).model_dir is None, name
+    store = demo_copy / ".cognomen"
+    checked = run_cli("check", str(demo_copy / "fernhill/alerts.py"), "--model-dir", str(store), cwd=tmp_path)
+    assert checked.returncode == 0 and "`valve`" in checked.stdout, checked.stderr
+    listed = run_cli("models", "--model-dir", str(store), "--format", "json", cwd=tmp_path)
+    assert listed.returncode == 0, listed.stderr
+    assert json.loads(listed.stdout)["current"]
+    missing = run_cli("models", "--model-dir", str(tmp_path / "none"), cwd=tmp_path)
+    assert missing.returncode == 2 and "no model found" in missing.stderr
