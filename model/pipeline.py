@@ -1,4 +1,4 @@
-"""The whole training run: discover, lex (cached), train, write, gate, promote, prune."""
+"""The whole training run: discover, lex (cached), train, write, check, promote, prune."""
 
 from __future__ import annotations
 
@@ -24,7 +24,7 @@ class NothingToLearn(Exception):
 
 
 @dataclass
-class GatePolicy:
+class PromotionPolicy:
     """When a freshly trained model may replace the current one."""
 
     tolerance: float = 0.02  # largest allowed drop in recovery@5 and in detection recall
@@ -82,7 +82,7 @@ def fingerprint(corpus: Corpus) -> str:
     return digest.hexdigest()
 
 
-def gate(new_quality: dict, current_quality: dict, policy: GatePolicy) -> tuple[bool, str]:
+def promotion_check(new_quality: dict, current_quality: dict, policy: PromotionPolicy) -> tuple[bool, str]:
     """Promote only if recovery@5 and detection recall drop by no more than the tolerance.
 
     On small held-out sets a figure moves by chance; a drop within two standard errors of the
@@ -107,11 +107,11 @@ def gate(new_quality: dict, current_quality: dict, policy: GatePolicy) -> tuple[
     return True, "promoted"
 
 
-def train_repository(path: Path, store: Path, settings: TrainSettings, policy: GatePolicy | None = None,
+def train_repository(path: Path, store: Path, settings: TrainSettings, policy: PromotionPolicy | None = None,
                      keep: int = 4, if_changed: bool = False, report=None,
                      background: list[str] | None = None) -> TrainResult:
-    """Train on the code under path and promote the model if it passes the quality gate."""
-    policy = policy or GatePolicy()
+    """Train on the code under path and promote the model if it passes the promotion check."""
+    policy = policy or PromotionPolicy()
     report = report or (lambda *args: None)
     started = time.monotonic()
     selection = discover(path, read_settings(path))
@@ -157,7 +157,7 @@ def train_repository(path: Path, store: Path, settings: TrainSettings, policy: G
     directory = persistence.save(store, trained, manifest)
     model_id = directory.name
     written = json.loads((directory / bundle.MANIFEST).read_text(encoding="utf-8"))
-    promoted, reason = gate(trained.quality, current_manifest.get("quality", {}) if current_manifest else {}, policy)
+    promoted, reason = promotion_check(trained.quality, current_manifest.get("quality", {}) if current_manifest else {}, policy)
     if promoted:
         bundle.promote(store, model_id)
     pruned = bundle.prune(store, keep)

@@ -1,6 +1,7 @@
 """The command line as people and other programs use it."""
 
 import json
+import re
 
 from .conftest import run_cli
 
@@ -75,7 +76,9 @@ def test_bad_input_never_tracebacks(demo_copy, tmp_path):
         ("suggest", "fernhill/alerts.py:x:1"),
         ("suggest", "fernhill/alerts.py"),
         ("train", "no/such/dir"),
+        ("models", "promote", "nope"),
         ("models", "use", "nope"),
+        ("models", "frobnicate"),
         ("frobnicate",),
     ]
     for args in cases:
@@ -113,3 +116,13 @@ def test_model_dir_before_or_after_any_subcommand(demo_copy, tmp_path):
     assert json.loads(listed.stdout)["current"]
     missing = run_cli("models", "--model-dir", str(tmp_path / "none"), cwd=tmp_path)
     assert missing.returncode == 2 and "no model found" in missing.stderr
+
+
+def test_models_promote_and_its_former_name_kept_out_of_help(demo_copy):
+    current = json.loads(run_cli("models", "--format", "json", cwd=demo_copy, check=True).stdout)["current"]
+    for action in ("promote", "use"):
+        result = run_cli("models", action, current, cwd=demo_copy)
+        assert result.returncode == 0 and result.stdout.strip() == f"current model is now {current}", action
+    shown = run_cli("--help").stdout + run_cli("models", "--help").stdout + run_cli("train", "--help").stdout
+    assert "models promote ID" in shown and "promotion check" in shown
+    assert not re.search(r"\buse\b", shown) and "gate" not in shown

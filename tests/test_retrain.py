@@ -1,4 +1,4 @@
-"""The weekly retrain: skip when unchanged, quality gate, rollback, pruning, crash safety."""
+"""The weekly retrain: skip when unchanged, promotion check, rollback, pruning, crash safety."""
 
 import json
 import os
@@ -12,7 +12,7 @@ import pytest
 
 from cognomen.model import bundle
 from cognomen.model.persistence import load_scorer
-from cognomen.model.pipeline import GatePolicy, gate
+from cognomen.model.pipeline import PromotionPolicy, promotion_check
 
 from .conftest import DEMO, git, run_cli
 
@@ -42,7 +42,7 @@ def test_if_changed_skips_an_unchanged_repository(repo):
     assert bundle.current_model_id(repo / ".cognomen") != first
 
 
-def test_gate_refuses_a_weak_model_and_force_promotes_it(repo):
+def test_promotion_check_refuses_a_weak_model_and_force_promotes_it(repo):
     run_cli("train", "--quiet", cwd=repo, check=True)
     good = bundle.current_model_id(repo / ".cognomen")
     weak = run_cli("train", "--quiet", "--vocabulary-size", "12", cwd=repo)
@@ -52,22 +52,22 @@ def test_gate_refuses_a_weak_model_and_force_promotes_it(repo):
     forced = run_cli("train", "--quiet", "--vocabulary-size", "12", "--force", cwd=repo)
     assert forced.returncode == 0
     assert bundle.current_model_id(repo / ".cognomen") != good
-    back = run_cli("models", "use", good, cwd=repo)
+    back = run_cli("models", "promote", good, cwd=repo)
     assert back.returncode == 0 and bundle.current_model_id(repo / ".cognomen") == good
     listing = models(repo)
     assert listing["current"] == good and len(listing["models"]) == 3
 
 
-def test_gate_rule():
+def test_promotion_check_rule():
     current = {"recovery_at_5": 0.40, "recall_at_threshold": 0.20}
     many = {"seeded": 10_000}
-    assert gate({"recovery_at_5": 0.39, "recall_at_threshold": 0.20, **many}, current, GatePolicy(0.02))[0]
-    refused, reason = gate({"recovery_at_5": 0.30, "recall_at_threshold": 0.20, **many}, current, GatePolicy(0.02))
+    assert promotion_check({"recovery_at_5": 0.39, "recall_at_threshold": 0.20, **many}, current, PromotionPolicy(0.02))[0]
+    refused, reason = promotion_check({"recovery_at_5": 0.30, "recall_at_threshold": 0.20, **many}, current, PromotionPolicy(0.02))
     assert not refused and "recovery@5 fell from 0.400 to 0.300" in reason
     # Measured on 50 seeded misnames, a drop of 0.1 is within chance (two standard errors: 0.139).
-    assert gate({"recovery_at_5": 0.30, "recall_at_threshold": 0.20, "seeded": 50}, current, GatePolicy(0.02))[0]
-    assert gate({"recovery_at_5": 0.30}, current, GatePolicy(0.02, force=True))[0]
-    assert gate({"recovery_at_5": 0.1}, {}, GatePolicy())[0], "the first model always passes"
+    assert promotion_check({"recovery_at_5": 0.30, "recall_at_threshold": 0.20, "seeded": 50}, current, PromotionPolicy(0.02))[0]
+    assert promotion_check({"recovery_at_5": 0.30}, current, PromotionPolicy(0.02, force=True))[0]
+    assert promotion_check({"recovery_at_5": 0.1}, {}, PromotionPolicy())[0], "the first model always passes"
 
 
 def test_pruning_keeps_the_newest(repo):

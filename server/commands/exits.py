@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import sys
 
-OK, FLAGGED, USAGE, GATE_REFUSED, INTERRUPTED = 0, 1, 2, 3, 130
+OK, FLAGGED, USAGE, NOT_PROMOTED, INTERRUPTED = 0, 1, 2, 3, 130
 
 
 class UsageError(Exception):

@@ -11,27 +11,26 @@ from .exits import OK, UsageError
 from .store import store_for
 
 
+ACTIONS = ("list", "promote")
+FORMER_NAMES = {"use": "promote"}  # still accepted for one release, never shown in help
+
+
 def register(commands) -> None:
-    models = commands.add_parser("models", help="list trained models, or switch with: models use ID")
-    models.add_argument("action", nargs="?", choices=("list", "use"), default="list")
-    models.add_argument("model_id", nargs="?")
+    models = commands.add_parser("models", help="list trained models, or switch with: models promote ID")
+    models.add_argument("action", nargs="?", default="list", metavar="ACTION",
+                        help="list (the default), or promote: make model ID the current one")
+    models.add_argument("model_id", nargs="?", metavar="ID")
     models.add_argument("--format", choices=("text", "json"), default="text")
     models.set_defaults(handler=run)
 
 
 def run(args) -> int:
     store = store_for(args)
-    if args.action == "use":
-        if not args.model_id:
-            raise UsageError("cognomen models use needs a model id (see cognomen models)")
-        if not (store / "models" / args.model_id).is_dir() or args.model_id.startswith("."):
-            raise UsageError(f"no model {args.model_id} in {store}")
-        try:
-            bundle.promote(store, args.model_id)
-        except ModelError as error:
-            raise UsageError(str(error)) from None
-        print(f"current model is now {args.model_id}")
-        return OK
+    action = FORMER_NAMES.get(args.action, args.action)
+    if action not in ACTIONS:
+        raise UsageError(f"models {args.action}: expected one of {', '.join(ACTIONS)}")
+    if action == "promote":
+        return promote(store, args.model_id)
     manifests = bundle.list_models(store)
     if not manifests:
         raise UsageError(f"no model found in {store}; run cognomen train")
@@ -50,6 +49,20 @@ def run(args) -> int:
               f"{m.get('created', ''):20} {(m.get('source_commit') or '-')[:8]:8} {counts.get('files', 0):>6} "
               f"{counts.get('vocabulary', 0):>10} {_figure(quality.get('recovery_at_5')):>10} "
               f"{_figure(quality.get('recall_at_threshold')):>7} {_figure(coverage):>8}")
+    return OK
+
+
+def promote(store, model_id: str | None) -> int:
+    """Make a model in the store the current one (to switch back, or to overrule the promotion check)."""
+    if not model_id:
+        raise UsageError("cognomen models promote needs a model id (see cognomen models)")
+    if not (store / "models" / model_id).is_dir() or model_id.startswith("."):
+        raise UsageError(f"no model {model_id} in {store}")
+    try:
+        bundle.promote(store, model_id)
+    except ModelError as error:
+        raise UsageError(str(error)) from None
+    print(f"current model is now {model_id}")
     return OK
 
 

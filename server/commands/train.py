@@ -5,10 +5,10 @@ from __future__ import annotations
 import time
 from pathlib import Path
 
-from cognomen.model.pipeline import GatePolicy, NothingToLearn, train_repository
+from cognomen.model.pipeline import PromotionPolicy, NothingToLearn, train_repository
 from cognomen.model.training import TrainSettings
 
-from .exits import GATE_REFUSED, INTERRUPTED, OK, UsageError, say
+from .exits import NOT_PROMOTED, INTERRUPTED, OK, UsageError, say
 from .store import store_for
 
 
@@ -22,9 +22,9 @@ def register(commands) -> None:
     train.add_argument("--flag-budget", type=float, default=1.0,
                        help="flags allowed per 1,000 lines of clean code when calibrating (default 1)")
     train.add_argument("--if-changed", action="store_true", help="do nothing when the code has not changed")
-    train.add_argument("--force", action="store_true", help="promote even if the quality gate refuses")
+    train.add_argument("--force", action="store_true", help="promote even if the promotion check refuses")
     train.add_argument("--tolerance", type=float, default=0.02,
-                       help="largest drop in recovery@5 or recall the gate accepts (default 0.02)")
+                       help="largest drop in recovery@5 or recall the promotion check accepts (default 0.02)")
     train.add_argument("--keep", type=int, default=4, help="models to keep in the store (default 4)")
     train.add_argument("--background", action="append", default=[], metavar="DIR",
                        help="more code to learn general naming from, at a lower weight; 'stdlib' means the "
@@ -72,7 +72,7 @@ def run(args) -> int:
                              epochs=args.epochs, flag_budget=args.flag_budget, seed=args.seed)
     if args.reproducible:
         settings.workers = 1
-    policy = GatePolicy(tolerance=args.tolerance, force=args.force)
+    policy = PromotionPolicy(tolerance=args.tolerance, force=args.force)
     try:
         result = train_repository(path.resolve(), store, settings, policy, keep=args.keep,
                                   if_changed=args.if_changed, report=TrainReport(args.quiet),
@@ -86,7 +86,7 @@ def run(args) -> int:
         print(f"nothing to do: {result.reason} ({result.model_id})")
         return OK
     print(summary(result, settings))
-    return OK if result.promoted else GATE_REFUSED
+    return OK if result.promoted else NOT_PROMOTED
 
 
 def summary(result, settings: TrainSettings) -> str:

@@ -17,13 +17,13 @@ sys.path.insert(0, str(Path(__file__).resolve().parent))
 
 from common import copy_stdlib, save  # noqa: E402
 
-from cognomen.model.pipeline import GatePolicy, train_repository  # noqa: E402
+from cognomen.model.pipeline import PromotionPolicy, train_repository  # noqa: E402
 from cognomen.model.training import TrainSettings  # noqa: E402
 
 
 def run(repo: Path, store: Path) -> dict:
     started = time.monotonic()
-    result = train_repository(repo, store, TrainSettings(), GatePolicy(force=True))
+    result = train_repository(repo, store, TrainSettings(), PromotionPolicy(force=True))
     wall = time.monotonic() - started
     corpus = result.corpus
     return {"files": len(corpus.files), "lines": corpus.lines, "tokens": corpus.tokens,
