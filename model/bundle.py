@@ -16,6 +16,8 @@ import numpy as np
 FORMAT_VERSION = 3
 MANIFEST = "manifest.json"
 CURRENT = "current"
+# The store holds trained models and caches, never anything to commit: it ignores itself.
+STORE_GITIGNORE = "# written by cognomen: the model store is never committed\n*\n"
 
 
 class ModelError(Exception):
@@ -44,6 +46,14 @@ def _sha256(path: Path) -> str:
     return digest.hexdigest()
 
 
+def prepare_store(store: Path) -> None:
+    """Create the store if needed, with a `.gitignore` that keeps all of it out of git."""
+    store.mkdir(parents=True, exist_ok=True)
+    ignore = store / ".gitignore"
+    if not ignore.exists():
+        ignore.write_text(STORE_GITIGNORE, encoding="utf-8")
+
+
 def new_model_id() -> str:
     return time.strftime("%Y%m%d-%H%M%S", time.gmtime()) + "-" + os.urandom(3).hex()
 
@@ -51,6 +61,7 @@ def new_model_id() -> str:
 def write_model(store: Path, manifest: dict, documents: dict[str, object],
                 arrays: dict[str, np.ndarray], model_id: str | None = None) -> Path:
     """Write a complete model into store/models/<id>; nothing is visible there until it is whole."""
+    prepare_store(store)
     models = store / "models"
     models.mkdir(parents=True, exist_ok=True)
     model_id = model_id or new_model_id()

@@ -118,6 +118,7 @@ def train_repository(path: Path, store: Path, settings: TrainSettings, policy: P
     if not selection.files:
         raise NothingToLearn(f"nothing to learn from: 0 source files under {path}")
     report("files", len(selection.files))
+    bundle.prepare_store(store)
     corpus = load_corpus(selection, TokenCache(store / "cache"),
                          progress=lambda done, total: report("lexing", done, total))
     if not corpus.files:

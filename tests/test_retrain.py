@@ -108,3 +108,13 @@ def test_reproducible_training_gives_the_same_model_bit_for_bit(repo, tmp_path):
         assert (first / name).read_bytes() == (second / name).read_bytes(), name
     manifests = [json.loads((d / "manifest.json").read_text()) for d in (first, second)]
     assert manifests[0]["threshold"] == manifests[1]["threshold"]
+
+
+def test_the_store_keeps_itself_out_of_git(repo):
+    run_cli("train", "--quiet", cwd=repo, check=True)
+    assert (repo / ".cognomen" / "models").is_dir()
+    git(repo, "add", "-A")
+    # git itself decides what `add -A` picked up: nothing from the store.
+    staged = git(repo, "diff", "--cached", "--name-only").split()
+    assert staged == []
+    assert git(repo, "status", "--porcelain", "--ignored", ".cognomen").strip() == "!! .cognomen/"

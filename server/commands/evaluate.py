@@ -5,6 +5,7 @@ from __future__ import annotations
 import json
 from pathlib import Path
 
+from cognomen.model import bundle
 from cognomen.model.corpus import TokenCache, discover, load_corpus, read_settings
 from cognomen.model.evaluation import evaluate_corpus, format_table
 from cognomen.model.training import TrainSettings
@@ -30,7 +31,9 @@ def run(args) -> int:
     selection = discover(path.resolve(), read_settings(path))
     if not selection.files:
         raise UsageError(f"nothing to learn from: 0 source files under {path}")
-    corpus = load_corpus(selection, TokenCache(store_for(args, path) / "cache"))
+    store = store_for(args, path)
+    bundle.prepare_store(store)
+    corpus = load_corpus(selection, TokenCache(store / "cache"))
     settings = TrainSettings(epochs=args.epochs, seed=args.seed)
     try:
         result = evaluate_corpus(corpus, settings, held_share=args.held_out, seed=args.seed + 6)
