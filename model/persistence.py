@@ -19,8 +19,8 @@ _TABLE_ARRAYS = ("input_vectors", "output_vectors", "name_counts", "name_vocab_r
                  "evidence_path_ids", "evidence_lines", "evidence_vectors", "usage_counts", "usage_variables")
 
 
-def save(store: Path, trained: TrainedModel, manifest: dict) -> Path:
-    """Write a complete model into the store (not yet promoted); returns its directory."""
+def save(store: Path, trained: TrainedModel, manifest: dict, refused: bool = False) -> Path:
+    """Write a complete model into the store (not yet promoted; set apart if refused); returns its directory."""
     tables = trained.tables
     documents = {
         "vocabulary": trained.vocabulary.to_json(),
@@ -36,7 +36,7 @@ def save(store: Path, trained: TrainedModel, manifest: dict) -> Path:
     full = dict(manifest, created=time.strftime("%Y-%m-%dT%H:%M:%SZ", time.gmtime()),
                 threshold=trained.threshold if math.isfinite(trained.threshold) else None, quality=trained.quality, counts=trained.counts,
                 seconds=trained.seconds)
-    return store_files.write_model(store, full, documents, arrays)
+    return store_files.write_model(store, full, documents, arrays, refused=refused)
 
 
 def scorer_from_bundle(loaded: store_files.Bundle) -> Scorer:

@@ -155,10 +155,11 @@ def train_repository(path: Path, store: Path, settings: TrainSettings, policy: P
         "background": list(background or []),
         "skipped": corpus.skipped,
     }
-    directory = persistence.save(store, trained, manifest)
+    promoted, reason = promotion_check(trained.quality, current_manifest.get("quality", {}) if current_manifest else {}, policy)
+    manifest["promotion_check"] = reason
+    directory = persistence.save(store, trained, manifest, refused=not promoted)
     model_id = directory.name
     written = json.loads((directory / bundle.MANIFEST).read_text(encoding="utf-8"))
-    promoted, reason = promotion_check(trained.quality, current_manifest.get("quality", {}) if current_manifest else {}, policy)
     if promoted:
         bundle.promote(store, model_id)
     pruned = bundle.prune(store, keep)

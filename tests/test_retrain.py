@@ -118,3 +118,38 @@ def test_the_store_keeps_itself_out_of_git(repo):
     staged = git(repo, "diff", "--cached", "--name-only").split()
     assert staged == []
     assert git(repo, "status", "--porcelain", "--ignored", ".cognomen").strip() == "!! .cognomen/"
+
+
+def test_refused_models_are_kept_apart_and_never_push_good_ones_out(repo):
+    store = repo / ".cognomen"
+    run_cli("train", "--quiet", "--keep", "2", cwd=repo, check=True)
+    first = bundle.current_model_id(store)
+    run_cli("train", "--quiet", "--keep", "2", "--force", cwd=repo, check=True)
+    second = bundle.current_model_id(store)
+    for _ in range(2):
+        weak = run_cli("train", "--quiet", "--keep", "2", "--vocabulary-size", "12", cwd=repo)
+        assert weak.returncode == 3, weak.stdout + weak.stderr
+    listing = models(repo)
+    status = {m["model_id"]: m["status"] for m in listing["models"]}
+    assert status.pop(first) == "ready" and status.pop(second) == "current", "both good models stay"
+    assert list(status.values()) == ["refused", "refused"]
+    assert sorted(p.name for p in (store / "models").iterdir() if not p.name.startswith(".")) == sorted([first, second])
+    text = run_cli("models", cwd=repo, check=True).stdout
+    assert sum(line.rstrip().endswith("refused") for line in text.splitlines()) == 2
+    # Promoting a refused model by hand overrules the check and brings it among the promotable ones.
+    refused = next(iter(status))
+    run_cli("models", "promote", refused, cwd=repo, check=True)
+    assert bundle.current_model_id(store) == refused and (store / "models" / refused).is_dir()
+
+
+def test_models_shows_a_damaged_current_model_as_damaged(repo):
+    run_cli("train", "--quiet", cwd=repo, check=True)
+    store = repo / ".cognomen"
+    current = bundle.current_model_id(store)
+    vectors = store / "models" / current / "output_vectors.npy"
+    vectors.write_bytes(vectors.read_bytes()[:-8] + b"\0" * 8)
+    [entry] = models(repo)["models"]
+    assert entry["status"] == "damaged" and "does not match its checksum" in entry["problem"]
+    text = run_cli("models", cwd=repo, check=True).stdout
+    assert text.splitlines()[1].rstrip().endswith("damaged")
+    assert f"note: {current} is damaged and will not load" in text
