@@ -101,10 +101,18 @@ def promotion_check(new_quality: dict, current_quality: dict, policy: PromotionP
         if new is None:
             reasons.append(f"{label} could not be measured (was {old:.3f})")
         elif new < old - allowed:
-            reasons.append(f"{label} fell from {old:.3f} to {new:.3f} (allowed drop {allowed:.3f})")
+            reasons.append(f"{label} fell from {old:.3f} to {new:.3f} ({allowed_drop(policy.tolerance, noise, samples)})")
     if reasons:
         return False, "kept the current model: " + "; ".join(reasons)
     return True, "promoted"
+
+
+def allowed_drop(tolerance: float, noise: float, samples: int) -> str:
+    """How the allowed drop was decided: the tolerance, or the measurement's noise when larger."""
+    if noise > tolerance:
+        return (f"allowed drop {noise:.3f}: two standard errors of the held-out measurement on {samples:,} "
+                f"seeded misnames, larger than the tolerance {tolerance:.3f}")
+    return f"allowed drop {tolerance:.3f}: the tolerance"
 
 
 def train_repository(path: Path, store: Path, settings: TrainSettings, policy: PromotionPolicy | None = None,

@@ -63,9 +63,15 @@ def test_promotion_check_rule():
     many = {"seeded": 10_000}
     assert promotion_check({"recovery_at_5": 0.39, "recall_at_threshold": 0.20, **many}, current, PromotionPolicy(0.02))[0]
     refused, reason = promotion_check({"recovery_at_5": 0.30, "recall_at_threshold": 0.20, **many}, current, PromotionPolicy(0.02))
-    assert not refused and "recovery@5 fell from 0.400 to 0.300" in reason
+    assert not refused and "recovery@5 fell from 0.400 to 0.300 (allowed drop 0.020: the tolerance)" in reason
     # Measured on 50 seeded misnames, a drop of 0.1 is within chance (two standard errors: 0.139).
     assert promotion_check({"recovery_at_5": 0.30, "recall_at_threshold": 0.20, "seeded": 50}, current, PromotionPolicy(0.02))[0]
+    refused, reason = promotion_check({"recovery_at_5": 0.20, "recall_at_threshold": 0.20, "seeded": 50}, current,
+                                      PromotionPolicy(0.02))
+    assert not refused and reason.endswith(
+        "(allowed drop 0.139: two standard errors of the held-out measurement on 50 seeded misnames, "
+        "larger than the tolerance 0.020)")
+    assert "two standard errors" in " ".join(run_cli("train", "--help").stdout.split())
     assert promotion_check({"recovery_at_5": 0.30}, current, PromotionPolicy(0.02, force=True))[0]
     assert promotion_check({"recovery_at_5": 0.1}, {}, PromotionPolicy())[0], "the first model always passes"
 

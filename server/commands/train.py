@@ -24,7 +24,9 @@ def register(commands) -> None:
     train.add_argument("--if-changed", action="store_true", help="do nothing when the code has not changed")
     train.add_argument("--force", action="store_true", help="promote even if the promotion check refuses")
     train.add_argument("--tolerance", type=float, default=0.02,
-                       help="largest drop in recovery@5 or recall the promotion check accepts (default 0.02)")
+                       help="largest drop in recovery@5 or recall the promotion check accepts (default 0.02); "
+                            "when the held-out measurement is noisier, it accepts a drop within two standard "
+                            "errors of that measurement instead, and says so")
     train.add_argument("--keep", type=int, default=4, help="models to keep in the store (default 4)")
     train.add_argument("--background", action="append", default=[], metavar="DIR",
                        help="more code to learn general naming from, at a lower weight; 'stdlib' means the "
