@@ -13,7 +13,7 @@ from pathlib import Path
 
 import numpy as np
 
-FORMAT_VERSION = 3
+FORMAT_VERSION = 4  # 4: quality measures under their public names (measures.py)
 MANIFEST = "manifest.json"
 CURRENT = "current"
 PROMOTABLE = "models"  # models that passed the promotion check (or were forced through it)

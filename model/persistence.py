@@ -8,6 +8,7 @@ from pathlib import Path
 
 
 from . import bundle as store_files
+from .measures import public
 from .reranking import Reranker
 from .scoring import Detector, NameTables, Scorer, Weights
 from .training import TrainedModel
@@ -34,7 +35,7 @@ def save(store: Path, trained: TrainedModel, manifest: dict, refused: bool = Fal
         documents["reranker"] = trained.reranker.to_json()
     arrays = {name: getattr(tables, name) for name in _TABLE_ARRAYS}
     full = dict(manifest, created=time.strftime("%Y-%m-%dT%H:%M:%SZ", time.gmtime()),
-                threshold=trained.threshold if math.isfinite(trained.threshold) else None, quality=trained.quality, counts=trained.counts,
+                threshold=trained.threshold if math.isfinite(trained.threshold) else None, quality=public(trained.quality), counts=trained.counts,
                 seconds=trained.seconds)
     return store_files.write_model(store, full, documents, arrays, refused=refused)
 

@@ -15,6 +15,7 @@ from pathlib import Path
 
 from . import bundle, persistence
 from .corpus import Corpus, Settings, TokenCache, discover, load_corpus, read_settings
+from .measures import label, public
 from .training import TrainSettings, settings_dict, train
 from .vocab_report import model_coverage
 
@@ -83,7 +84,7 @@ def fingerprint(corpus: Corpus) -> str:
 
 
 def promotion_check(new_quality: dict, current_quality: dict, policy: PromotionPolicy) -> tuple[bool, str]:
-    """Promote only if recovery@5 and detection recall drop by no more than the tolerance.
+    """Promote only if 'found in top 5' and 'misnames flagged' drop by no more than the tolerance.
 
     On small held-out sets a figure moves by chance; a drop within two standard errors of the
     measurement is not held against the new model.
@@ -91,17 +92,17 @@ def promotion_check(new_quality: dict, current_quality: dict, policy: PromotionP
     if policy.force:
         return True, "promoted (forced)"
     reasons = []
-    samples = max(int(new_quality.get("seeded", 0) or 0), 1)
-    for key, label in (("recovery_at_5", "recovery@5"), ("recall_at_threshold", "detection recall")):
+    samples = max(int(new_quality.get("seeded_misnames", 0) or 0), 1)
+    for key in ("found_in_top_5", "misnames_flagged"):
         old, new = current_quality.get(key), new_quality.get(key)
         if old is None:
             continue
         noise = 2.0 * math.sqrt(max(old * (1.0 - old), 0.0) / samples)
         allowed = max(policy.tolerance, noise)
         if new is None:
-            reasons.append(f"{label} could not be measured (was {old:.3f})")
+            reasons.append(f"{label(key)} could not be measured (was {old:.3f})")
         elif new < old - allowed:
-            reasons.append(f"{label} fell from {old:.3f} to {new:.3f} ({allowed_drop(policy.tolerance, noise, samples)})")
+            reasons.append(f"{label(key)} fell from {old:.3f} to {new:.3f} ({allowed_drop(policy.tolerance, noise, samples)})")
     if reasons:
         return False, "kept the current model: " + "; ".join(reasons)
     return True, "promoted"
@@ -163,7 +164,7 @@ def train_repository(path: Path, store: Path, settings: TrainSettings, policy: P
         "background": list(background or []),
         "skipped": corpus.skipped,
     }
-    promoted, reason = promotion_check(trained.quality, current_manifest.get("quality", {}) if current_manifest else {}, policy)
+    promoted, reason = promotion_check(public(trained.quality), current_manifest.get("quality", {}) if current_manifest else {}, policy)
     manifest["promotion_check"] = reason
     directory = persistence.save(store, trained, manifest, refused=not promoted)
     model_id = directory.name

@@ -126,3 +126,28 @@ def test_models_promote_and_its_former_name_kept_out_of_help(demo_copy):
     shown = run_cli("--help").stdout + run_cli("models", "--help").stdout + run_cli("train", "--help").stdout
     assert "models promote ID" in shown and "promotion check" in shown
     assert not re.search(r"\buse\b", shown) and "gate" not in shown
+
+
+OLD_SPELLINGS = re.compile(r"recovery|recall|@|kloc|\bthr\b|calibration_lines", re.IGNORECASE)
+
+
+def test_each_measure_has_one_name_in_every_output(demo_copy, tmp_path):
+    from cognomen.model.measures import NAMES, PUBLIC_KEYS
+
+    store = tmp_path / "store"
+    trained = run_cli("--model-dir", str(store), "train", "--quiet", str(demo_copy), check=True)
+    held_out = next(line for line in trained.stdout.splitlines() if line.strip().startswith("held out"))
+    assert "found in top 5" in held_out and "found first" in held_out
+    listed = run_cli("--model-dir", str(store), "models", check=True).stdout
+    assert "found in top 5" in listed and "misnames flagged" in listed
+    manifest = json.loads(run_cli("--model-dir", str(store), "models", "--format", "json", check=True).stdout)
+    quality_keys = set(manifest["models"][0]["quality"])
+    assert quality_keys and quality_keys <= set(PUBLIC_KEYS.values())
+    evaluated = run_cli("--model-dir", str(store), "eval", str(demo_copy), check=True).stdout
+    assert all(name in evaluated for name in ("found first", "found in top 5", "detection AUC", "misnames flagged"))
+    figures = json.loads(run_cli("--model-dir", str(store), "eval", "--format", "json", str(demo_copy),
+                                 check=True).stdout)
+    assert set(figures["scorers"]["model"]) <= set(PUBLIC_KEYS.values())
+    for text in (trained.stdout, listed, evaluated, json.dumps(manifest), json.dumps(figures)):
+        assert not OLD_SPELLINGS.search(text), OLD_SPELLINGS.search(text).group(0)
+    assert len(set(NAMES.values())) == len(NAMES), "no two measures share a name"

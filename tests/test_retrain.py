@@ -47,7 +47,7 @@ def test_promotion_check_refuses_a_weak_model_and_force_promotes_it(repo):
     good = bundle.current_model_id(repo / ".cognomen")
     weak = run_cli("train", "--quiet", "--vocabulary-size", "12", cwd=repo)
     assert weak.returncode == 3, weak.stdout + weak.stderr
-    assert "kept the current model: recovery@5" in weak.stdout
+    assert "kept the current model: found in top 5" in weak.stdout
     assert bundle.current_model_id(repo / ".cognomen") == good
     forced = run_cli("train", "--quiet", "--vocabulary-size", "12", "--force", cwd=repo)
     assert forced.returncode == 0
@@ -59,21 +59,21 @@ def test_promotion_check_refuses_a_weak_model_and_force_promotes_it(repo):
 
 
 def test_promotion_check_rule():
-    current = {"recovery_at_5": 0.40, "recall_at_threshold": 0.20}
-    many = {"seeded": 10_000}
-    assert promotion_check({"recovery_at_5": 0.39, "recall_at_threshold": 0.20, **many}, current, PromotionPolicy(0.02))[0]
-    refused, reason = promotion_check({"recovery_at_5": 0.30, "recall_at_threshold": 0.20, **many}, current, PromotionPolicy(0.02))
-    assert not refused and "recovery@5 fell from 0.400 to 0.300 (allowed drop 0.020: the tolerance)" in reason
+    current = {"found_in_top_5": 0.40, "misnames_flagged": 0.20}
+    many = {"seeded_misnames": 10_000}
+    assert promotion_check({"found_in_top_5": 0.39, "misnames_flagged": 0.20, **many}, current, PromotionPolicy(0.02))[0]
+    refused, reason = promotion_check({"found_in_top_5": 0.30, "misnames_flagged": 0.20, **many}, current, PromotionPolicy(0.02))
+    assert not refused and "found in top 5 fell from 0.400 to 0.300 (allowed drop 0.020: the tolerance)" in reason
     # Measured on 50 seeded misnames, a drop of 0.1 is within chance (two standard errors: 0.139).
-    assert promotion_check({"recovery_at_5": 0.30, "recall_at_threshold": 0.20, "seeded": 50}, current, PromotionPolicy(0.02))[0]
-    refused, reason = promotion_check({"recovery_at_5": 0.20, "recall_at_threshold": 0.20, "seeded": 50}, current,
+    assert promotion_check({"found_in_top_5": 0.30, "misnames_flagged": 0.20, "seeded_misnames": 50}, current, PromotionPolicy(0.02))[0]
+    refused, reason = promotion_check({"found_in_top_5": 0.20, "misnames_flagged": 0.20, "seeded_misnames": 50}, current,
                                       PromotionPolicy(0.02))
     assert not refused and reason.endswith(
         "(allowed drop 0.139: two standard errors of the held-out measurement on 50 seeded misnames, "
         "larger than the tolerance 0.020)")
     assert "two standard errors" in " ".join(run_cli("train", "--help").stdout.split())
-    assert promotion_check({"recovery_at_5": 0.30}, current, PromotionPolicy(0.02, force=True))[0]
-    assert promotion_check({"recovery_at_5": 0.1}, {}, PromotionPolicy())[0], "the first model always passes"
+    assert promotion_check({"found_in_top_5": 0.30}, current, PromotionPolicy(0.02, force=True))[0]
+    assert promotion_check({"found_in_top_5": 0.1}, {}, PromotionPolicy())[0], "the first model always passes"
 
 
 def test_pruning_keeps_the_newest(repo):

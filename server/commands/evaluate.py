@@ -8,6 +8,7 @@ from pathlib import Path
 from cognomen.model import bundle
 from cognomen.model.corpus import TokenCache, discover, load_corpus, read_settings
 from cognomen.model.evaluation import evaluate_corpus, format_table
+from cognomen.model.measures import public_evaluation
 from cognomen.model.training import TrainSettings
 
 from .exits import OK, UsageError
@@ -40,7 +41,7 @@ def run(args) -> int:
     except ValueError as error:
         raise UsageError(str(error)) from None
     if args.format == "json":
-        print(json.dumps(result, indent=2))
+        print(json.dumps(public_evaluation(result), indent=2))
     else:
         print(format_table(result))
     return OK

@@ -7,6 +7,7 @@ from pathlib import Path
 
 from cognomen.model import bundle
 from cognomen.model.bundle import ModelError
+from cognomen.model.measures import label
 
 from .exits import OK, UsageError
 from .store import store_for
@@ -43,14 +44,14 @@ def run(args) -> int:
             for m, status, problem in listed]}, indent=2))
         return OK
     print(f"{'':2}{'model':24} {'created':20} {'commit':8} {'files':>6} {'vocabulary':>10} "
-          f"{'recovery@5':>10} {'recall':>7} {'coverage':>8}  status")
+          f"{label('found_in_top_5'):>14} {label('misnames_flagged'):>16} {'coverage':>8}  status")
     for m, status, _ in listed:
         counts, quality = m.get("counts", {}), m.get("quality", {})
         coverage = m.get("coverage", {}).get("occurrence_share")
         print(f"{'*' if m.get('model_id') == current else ' ':2}{m.get('model_id', '?'):24} "
               f"{m.get('created', ''):20} {(m.get('source_commit') or '-')[:8]:8} {counts.get('files', 0):>6} "
-              f"{counts.get('vocabulary', 0):>10} {_figure(quality.get('recovery_at_5')):>10} "
-              f"{_figure(quality.get('recall_at_threshold')):>7} {_figure(coverage):>8}  {status}")
+              f"{counts.get('vocabulary', 0):>10} {_figure(quality.get('found_in_top_5')):>14} "
+              f"{_figure(quality.get('misnames_flagged')):>16} {_figure(coverage):>8}  {status}")
     for m, status, problem in listed:
         if status == "damaged":
             print(f"note: {m.get('model_id')} is damaged and will not load: {problem}")

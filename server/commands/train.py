@@ -5,6 +5,7 @@ from __future__ import annotations
 import time
 from pathlib import Path
 
+from cognomen.model.measures import label
 from cognomen.model.pipeline import PromotionPolicy, NothingToLearn, train_repository
 from cognomen.model.training import TrainSettings
 
@@ -24,7 +25,7 @@ def register(commands) -> None:
     train.add_argument("--if-changed", action="store_true", help="do nothing when the code has not changed")
     train.add_argument("--force", action="store_true", help="promote even if the promotion check refuses")
     train.add_argument("--tolerance", type=float, default=0.02,
-                       help="largest drop in recovery@5 or recall the promotion check accepts (default 0.02); "
+                       help="largest drop in 'found in top 5' or 'misnames flagged' the promotion check accepts (default 0.02); "
                             "when the held-out measurement is noisier, it accepts a drop within two standard "
                             "errors of that measurement instead, and says so")
     train.add_argument("--keep", type=int, default=4, help="models to keep in the store (default 4)")
@@ -107,12 +108,18 @@ def summary(result, settings: TrainSettings) -> str:
         f"  vocabulary {counts.get('vocabulary', 0):,} tokens, {counts.get('names', 0):,} candidate names",
         (f"  threshold  {manifest['threshold']:.3f} (about {settings.flag_budget:g} flag per 1,000 lines)"
          if manifest.get("threshold") is not None else
-         f"  threshold  none: too little held-out code ({quality.get('calibration_lines', 0):,} lines) to "
+         f"  threshold  none: too little held-out code ({quality.get('held_out_lines', 0):,} lines) to "
          f"calibrate flags; suggestions only (more code, or --background stdlib for Python, fixes this)"),
     ]
     if quality:
-        lines.append("  held out   " + ", ".join(f"{k} {v}" for k, v in quality.items()))
+        lines.append("  held out   " + ", ".join(f"{label(k)} {_figure(v)}" for k, v in quality.items()))
     lines.append("  seconds    " + ", ".join(f"{k} {v}" for k, v in result.seconds.items()))
     if result.pruned:
         lines.append(f"  pruned     {', '.join(result.pruned)}")
     return "\n".join(lines)
+
+
+def _figure(value) -> str:
+    if isinstance(value, float):
+        return "-" if value != value else f"{value:.3f}"
+    return f"{value:,}" if isinstance(value, int) else str(value)

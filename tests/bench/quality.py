@@ -23,6 +23,7 @@ from common import STDLIB, save  # noqa: E402
 
 from cognomen.model.corpus import Settings, TokenCache, discover, load_corpus  # noqa: E402
 from cognomen.model.evaluation import evaluate_corpus, format_table  # noqa: E402
+from cognomen.model.measures import label  # noqa: E402
 from cognomen.model.pipeline import STDLIB_EXCLUDES, load_background  # noqa: E402
 from cognomen.model.training import TrainSettings  # noqa: E402
 
@@ -128,7 +129,7 @@ def main() -> int:
             print(format_table(result))
             model, counts = result["scorers"]["model"], result["scorers"]["context counts"]
             if counts["recovery_at_5"]:
-                print(f"recovery@5 against the count-based baseline: "
+                print(f"{label('recovery_at_5')} against the count-based baseline: "
                       f"{model['recovery_at_5'] / counts['recovery_at_5']:.2f}x")
             sys.stdout.flush()
     save("quality", results)
