@@ -2,14 +2,21 @@
 
 from __future__ import annotations
 
+import argparse
 import json
+import re
+import time
+from collections import Counter
 from pathlib import Path
 
-from cognomen.model.corpus import SkipFile, discover, read_source
+from cognomen.model.corpus import MAX_FILE_BYTES, SkipFile, discover, read_source, size_limit_reason
 from cognomen.model.findings import Finding, analyse_text, check_source
 
-from .exits import OK, UsageError
+from .exits import OK, UsageError, say
 from .store import load_or_explain, store_for
+
+
+LARGE_FILE = 256 << 10  # a file this large takes seconds: say so before starting it
 
 
 def register(commands) -> None:
@@ -17,7 +24,18 @@ def register(commands) -> None:
     check.add_argument("files", nargs="+", metavar="PATH", help="files, or folders to check every source file in")
     check.add_argument("--format", choices=("text", "json"), default="text")
     check.add_argument("--threshold", type=float, help="flag above this oddness instead of the calibrated one")
+    check.add_argument("--max-file-size", type=file_size, default=MAX_FILE_BYTES, metavar="SIZE",
+                       help="skip larger files, as training does (default 1M; bytes, or with a K or M suffix)")
+    check.add_argument("--quiet", action="store_true", help="no progress on stderr")
     check.set_defaults(handler=run)
+
+
+def file_size(text: str) -> int:
+    """A size in bytes from '1048576', '800K' or '5M' (KiB and MiB, as the summary prints them)."""
+    match = re.fullmatch(r"\s*(\d+)\s*([kKmM]?)(i?[bB])?\s*", text)
+    if not match:
+        raise argparse.ArgumentTypeError(f"{text!r} is not a size (for example 1048576, 800K or 5M)")
+    return int(match.group(1)) << {"": 0, "k": 10, "m": 20}[match.group(2).lower()]
 
 
 def finding_text(finding: Finding) -> str:
@@ -45,35 +63,83 @@ def run(args) -> int:
     scorer, _ = load_or_explain(store_for(args))
     findings: list[Finding] = []
     notes: list[str] = []
-    paths = source_paths(args.files)
-    for path in paths:
-        source = analyse_text(read_document(path), path)
+    targets, skipped = source_paths(args.files, args.max_file_size)
+    progress = Progress(len(targets), args.quiet)
+    checked = 0
+    for index, (path, named) in enumerate(targets, 1):
+        size = Path(path).stat().st_size
+        if size > args.max_file_size:  # only a named file gets here: discover left out larger ones
+            reason = size_limit_reason(args.max_file_size)
+            skipped[reason] += 1
+            notes.append(f"{path}: {reason}; skipped (--max-file-size raises the limit)")
+            continue
+        try:
+            text = read_source(Path(path))
+        except SkipFile as skip:
+            if named:
+                raise UsageError(f"{path}: cannot read ({skip})") from None
+            skipped[str(skip)] += 1  # under a folder: skipped and counted, as training does
+            continue
+        source = analyse_text(text, path)
         if source is None:
             notes.append(f"{path}: not a supported language; skipped")
             continue
+        progress.starting(index, path, size)
         findings.extend(check_source(scorer, source, args.threshold))
+        checked += 1
     if args.format == "json":
-        print(json.dumps({"findings": [f.to_json() for f in findings]}, indent=2))
+        report = {"findings": [f.to_json() for f in findings]}
+        if skipped:
+            report["skipped"] = dict(sorted(skipped.items()))
+        print(json.dumps(report, indent=2))
     else:
         for note in notes:
             print(f"note: {note}")
+        if skipped:
+            print(f"note: skipped {plural(sum(skipped.values()), 'file')}: "
+                  + ", ".join(f"{count} {reason}" for reason, count in sorted(skipped.items())))
         for finding in findings:
             print(finding_text(finding))
-        print(f"{len(findings)} oddly named variable{'s' if len(findings) != 1 else ''} in "
-              f"{len(paths)} file{'s' if len(paths) != 1 else ''}")
+        print(f"{plural(len(findings), 'oddly named variable')} in {plural(checked, 'file')}")
     return OK
 
 
-def source_paths(arguments: list[str]) -> list[str]:
-    """Files as given, and for a folder the source files under it (as `train` would pick them)."""
-    paths = []
+def plural(count: int, noun: str) -> str:
+    return f"{count:,} {noun}{'' if count == 1 else 's'}"
+
+
+class Progress:
+    """Progress on stderr on long runs: silent for the first second, then at most a line a second,
+    and always before a large file."""
+
+    def __init__(self, total: int, quiet: bool):
+        self.total, self.quiet = total, quiet
+        self.started = self.last = time.monotonic()
+
+    def starting(self, index: int, path: str, size: int) -> None:
+        now = time.monotonic()
+        if self.quiet or (size < LARGE_FILE and (now - self.started < 1.0 or now - self.last < 1.0)):
+            return
+        self.last = now
+        say(f"checking {index:,}/{self.total:,}: {path}" + (f" ({size >> 10:,} KiB)" if size >= LARGE_FILE else ""))
+
+
+def source_paths(arguments: list[str], max_bytes: int) -> tuple[list[tuple[str, bool]], Counter]:
+    """(path, named) for files as given and for the source files under each folder (as `train` would
+    pick them), with counts of what was skipped under the folders and why."""
+    paths, skipped, seen = [], Counter(), set()
     for argument in arguments:
         given = Path(argument)
         if given.is_dir():
-            selection = discover(given)
-            paths.extend(str(given / relative) for relative in selection.files)
+            selection = discover(given, max_bytes=max_bytes)
+            found = [(str(given / relative), False) for relative in selection.files]
+            skipped.update(selection.skipped)
         elif given.is_file():
-            paths.append(argument)
+            found = [(argument, True)]
         else:
             raise UsageError(f"{argument}: no such file or folder")
-    return paths
+        for path, named in found:
+            if Path(path).resolve() not in seen:  # a file named and also under a named folder is checked once
+                seen.add(Path(path).resolve())
+                paths.append((path, named))
+    return paths, skipped
