@@ -204,3 +204,18 @@ def test_check_applies_the_training_size_limit_and_shows_progress(own_demo):
     assert quiet.returncode == 0 and quiet.stderr == ""
     bad = run_cli("check", "--max-file-size", "lots", "fernhill/huge.py", cwd=own_demo)
     assert bad.returncode == 2 and "'lots' is not a size" in bad.stderr
+
+
+def test_suggest_a_position_outside_the_file_is_a_usage_error(demo_copy):
+    lines = (demo_copy / "fernhill/alerts.py").read_text().splitlines()  # Python's own idea of lines
+    past_file = run_cli("suggest", "fernhill/alerts.py:9999:1", cwd=demo_copy)
+    assert past_file.returncode == 2 and past_file.stdout == ""
+    assert past_file.stderr == (f"cognomen: fernhill/alerts.py:9999:1: line 9999 is past the end of the file "
+                                f"({len(lines)} lines)\n")
+    past_line = run_cli("suggest", "fernhill/alerts.py:27:500", cwd=demo_copy)
+    assert past_line.returncode == 2
+    assert past_line.stderr == (f"cognomen: fernhill/alerts.py:27:500: column 500 is past the end of line 27 "
+                                f"({len(lines[26])} characters)\n")
+    end_of_line = run_cli("suggest", f"fernhill/alerts.py:27:{len(lines[26]) + 1}",
+                          f"fernhill/alerts.py:{len(lines)}:1", cwd=demo_copy)
+    assert end_of_line.returncode == 0, end_of_line.stderr

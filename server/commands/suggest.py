@@ -28,16 +28,32 @@ def parse_position(text: str) -> tuple[str, int, int]:
     return path, int(line), int(rest)
 
 
+def inside_file(text: str, path: str, line: int, column: int) -> None:
+    """A usage error for a line past the end of the file or a column past the end of its line."""
+    lines = text.split("\n")
+    if len(lines) > 1 and lines[-1] == "":
+        lines.pop()  # the final newline ends the last line; it starts none
+    where = f"{path}:{line}:{column}"
+    if line > len(lines):
+        raise UsageError(f"{where}: line {line} is past the end of the file ({len(lines):,} lines)")
+    length = len(lines[line - 1].rstrip("\r"))
+    if column > length + 1:
+        raise UsageError(f"{where}: column {column} is past the end of line {line} ({length:,} characters)")
+
+
 def run(args) -> int:
     scorer, _ = load_or_explain(store_for(args))
     positions = [parse_position(p) for p in args.positions]
     results, lines = [], []
-    sources = {}
+    texts = {}
     for path, line, column in positions:
-        if path not in sources:
+        if path not in texts:
             if not Path(path).is_file():
                 raise UsageError(f"{path}: no such file")
-            sources[path] = analyse_text(read_document(path), path)
+            texts[path] = read_document(path)
+        inside_file(texts[path], path, line, column)
+    sources = {path: analyse_text(text, path) for path, text in texts.items()}
+    for path, line, column in positions:
         source = sources[path]
         if source is None:
             entry = {"path": path, "line": line, "column": column, "name": None, "suggestions": [],
