@@ -212,9 +212,10 @@ class NameServer(LanguageServer):
         if source is None:
             return None
         cache = self.judgement_caches.setdefault(uri, JudgementCache())
-        findings = check_source(self.scorer, source, self.settings.threshold, cache=cache) if self.scorer else []
+        scorer = self.scorer  # the same model throughout, even if a new one is swapped in meanwhile
+        findings = check_source(scorer, source, self.settings.threshold, cache=cache) if scorer else []
         minimum = LEVELS.index(self.settings.minimum_level)
-        findings = [f for f in findings if LEVELS.index(level_of(f)) >= minimum]
+        findings = [f for f in findings if LEVELS.index(level_of(f, scorer.threshold)) >= minimum]
         return Analysis(version, source, findings)
 
     def pieces(self, uri: str) -> PieceCache:

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import fnmatch
 import json
+import math
 import re
 import subprocess
 from dataclasses import dataclass, field
@@ -15,7 +16,7 @@ from cognomen.model.scoring import Scorer
 from cognomen.model.tokens import language_for_path
 
 LEVELS = ("warning", "error")
-STRONG_MARGIN = 2.0  # oddness this far above the threshold makes an error rather than a warning
+STRONG_MARGIN = 2.0  # oddness this far above the calibrated threshold makes an error rather than a warning
 KEEP_MARKER = re.compile(r"(#|//|/\*|--)\s*cognomen:\s*keep-name\b")
 
 
@@ -39,13 +40,24 @@ class ReviewResult:
     suppressed: int = 0
     files: int = 0
     skipped: dict[str, int] = field(default_factory=dict)
+    calibrated: float = math.inf  # the model's own threshold, which decides each finding's level
+
+    def level(self, finding: Finding) -> str:
+        return level_of(finding, self.calibrated)
 
     def skip(self, reason: str) -> None:
         self.skipped[reason] = self.skipped.get(reason, 0) + 1
 
 
-def level_of(finding: Finding) -> str:
-    return "error" if finding.score is not None and finding.score >= finding.threshold + STRONG_MARGIN else "warning"
+def level_of(finding: Finding, calibrated: float) -> str:
+    """Error when the oddness is STRONG_MARGIN above the model's calibrated threshold, else warning.
+
+    A threshold given on the command line or in the editor changes which names are reported,
+    never how severe a name is.
+    """
+    if finding.score is not None and finding.score >= calibrated + STRONG_MARGIN:
+        return "error"
+    return "warning"
 
 
 def git(root: Path, *args: str) -> str:
@@ -153,7 +165,7 @@ def has_keep_marker(lines: list[str], finding: Finding) -> bool:
 def review(scorer: Scorer, root: Path, base: str, head: str | None = None,
            threshold: float | None = None) -> ReviewResult:
     """Findings whose binding or a use sits on a line the change added or changed."""
-    result = ReviewResult()
+    result = ReviewResult(calibrated=scorer.threshold)
     accepted = accepted_names(root)
     for changed in changed_files(root, base, head, result):
         source = analyse_text(changed.text, changed.path)
@@ -175,9 +187,9 @@ def fails(result: ReviewResult, fail_on: str) -> bool:
     if fail_on == "never":
         return False
     minimum = LEVELS.index(fail_on)
-    return any(LEVELS.index(level_of(f)) >= minimum for f in result.findings)
+    return any(LEVELS.index(result.level(f)) >= minimum for f in result.findings)
 
 
 def to_json(result: ReviewResult) -> str:
-    return json.dumps({"findings": [dict(f.to_json(), level=level_of(f)) for f in result.findings],
+    return json.dumps({"findings": [dict(f.to_json(), level=result.level(f)) for f in result.findings],
                        "suppressed": result.suppressed, "files": result.files}, indent=2)

@@ -5,7 +5,7 @@ from __future__ import annotations
 import json
 from pathlib import Path
 
-from ..review import ReviewError, fails, level_of, repository_top, review, to_json
+from ..review import ReviewError, fails, repository_top, review, to_json
 from ..sarif import sarif_log
 from .check import finding_text
 from .exits import FLAGGED, OK, UsageError
@@ -37,7 +37,7 @@ def run(args) -> int:
     if args.format == "json":
         print(to_json(result))
     elif args.format == "sarif":
-        print(json.dumps(sarif_log([(f, level_of(f)) for f in result.findings], root), indent=2))
+        print(json.dumps(sarif_log([(f, result.level(f)) for f in result.findings], root), indent=2))
     else:
         for finding in result.findings:
             print(finding_text(finding))
