@@ -269,17 +269,35 @@ class NameServer(LanguageServer):
         return fresh.source if fresh else None
 
     def server_position(self, uri: str, position: types.Position) -> tuple[int, int]:
-        """A client position as a 1-based line and 1-based character column; invalid params if outside."""
+        """A client position as a 1-based line and 1-based character column; invalid params if outside.
+
+        A character past the end of its line means the end of the line, as the LSP specification
+        says of every position.
+        """
         document = self.workspace.get_text_document(uri)
         lines = document.lines
         if position.line < 0 or position.character < 0 or position.line > len(lines) or (
                 position.line == len(lines) and position.character > 0):
             raise JsonRpcInvalidParams(f"position {position.line}:{position.character} is outside the document")
-        if position.line < len(lines) and position.character > document.position_codec.client_num_units(
-                lines[position.line].rstrip("\r\n")):
-            raise JsonRpcInvalidParams(f"position {position.line}:{position.character} is past the end of its line")
+        length = self.line_length(uri, position.line)
+        if position.character > length:
+            position = types.Position(line=position.line, character=length)
         converted = document.position_from_client_units(position)
         return converted.line + 1, converted.character + 1
+
+    def line_length(self, uri: str, line: int) -> int:
+        """A line's length in the client's units (0 for the empty place after a final newline)."""
+        document = self.workspace.get_text_document(uri)
+        if line >= len(document.lines):
+            return 0
+        return document.position_codec.client_num_units(document.lines[line].rstrip("\r\n"))
+
+    def accepts_markdown(self) -> bool:
+        """Whether the client renders Markdown in hovers (it says so in textDocument.hover.contentFormat)."""
+        capabilities = self.client_capabilities
+        hover = capabilities.text_document.hover if capabilities and capabilities.text_document else None
+        formats = hover.content_format if hover else None
+        return formats is None or types.MarkupKind.Markdown in formats
 
 
 def path_of(uri: str) -> str:
@@ -437,31 +455,46 @@ def rename_actions(ls: NameServer, params: types.CodeActionParams) -> list[types
 
 
 def hover_for(ls: NameServer, uri: str, position: types.Position) -> types.Hover | None:
+    ls.server_position(uri, position)  # invalid params outside the document
+    if position.character > ls.line_length(uri, position.line):
+        return None  # past the end of its line: nothing is under the pointer
     found = _finding_at(ls, uri, position)
     if found is None:
         return None
     _, finding = found
+    markdown = ls.accepts_markdown()
+    document = ls.workspace.get_text_document(uri)
+    line, column = _occurrence_at(finding, *ls.server_position(uri, position))
+    kind = types.MarkupKind.Markdown if markdown else types.MarkupKind.PlainText
+    return types.Hover(contents=types.MarkupContent(kind=kind, value=hover_text(finding, markdown, ls.uri_for)),
+                       range=client_range(document, line, column, len(finding.name)))
+
+
+def hover_text(finding: Finding, markdown: bool, uri_for) -> str:
+    """The verdict on a name and the team's names for contexts like it, in Markdown or readable plain text."""
+    def code(name: str) -> str:
+        return f"`{name}`" if markdown else name
+
+    def place(path: str, line: int) -> str:
+        return f"[{path}:{line}]({uri_for(path)}#L{line})" if markdown else f"{path}:{line}"
+
+    name = code(finding.name)
     if finding.score is None:
-        verdict = f"cognomen cannot judge `{finding.name}` here (too little code in this language, or no model " \
-                  f"names for it)"
+        verdict = f"cognomen cannot judge {name} here (too little code in this language, or no model names for it)"
     elif finding.flagged:
-        verdict = f"`{finding.name}` does not fit how it is used here " \
+        verdict = f"{name} does not fit how it is used here " \
                   f"(oddness {finding.score:.2f}, flagged above {finding.threshold:.2f})"
     elif finding.score > finding.threshold - 1.0:
-        verdict = f"`{finding.name}` fits, but only just (oddness {finding.score:.2f}, threshold {finding.threshold:.2f})"
+        verdict = f"{name} fits, but only just (oddness {finding.score:.2f}, threshold {finding.threshold:.2f})"
     else:
-        verdict = f"`{finding.name}` fits how it is used here (oddness {finding.score:.2f}, threshold " \
-                  f"{finding.threshold:.2f})"
+        verdict = f"{name} fits how it is used here (oddness {finding.score:.2f}, threshold {finding.threshold:.2f})"
     lines = [verdict, ""]
     if finding.suggestions:
         lines.append("Names the team uses in contexts like this:")
         for suggestion in finding.suggestions[:5]:
-            places = ", ".join(f"[{path}:{line}]({ls.uri_for(path)}#L{line})" for path, line in suggestion.evidence)
-            lines.append(f"- `{suggestion.name}` ({suggestion.score:.0%})" + (f": {places}" if places else ""))
-    document = ls.workspace.get_text_document(uri)
-    line, column = _occurrence_at(finding, *ls.server_position(uri, position))
-    return types.Hover(contents=types.MarkupContent(kind=types.MarkupKind.Markdown, value="\n".join(lines)),
-                       range=client_range(document, line, column, len(finding.name)))
+            places = ", ".join(place(path, line) for path, line in suggestion.evidence)
+            lines.append(f"- {code(suggestion.name)} ({suggestion.score:.0%})" + (f": {places}" if places else ""))
+    return "\n".join(lines)
 
 
 def _occurrence_at(finding: Finding, line: int, column: int) -> tuple[int, int]:

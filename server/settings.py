@@ -44,8 +44,8 @@ def parse_settings(raw, previous: ServerSettings | None = None) -> tuple[ServerS
     if previous is not None:
         settings = ServerSettings(**{f.name: getattr(previous, f.name) for f in fields(ServerSettings)})
     problems: list[str] = []
-    if raw is None:
-        return settings, problems
+    if raw is None or raw == []:
+        return settings, problems  # no settings (some clients encode an empty object as an empty list)
     if not isinstance(raw, dict):
         return settings, [f"cognomen settings must be an object, not {type(raw).__name__}"]
     if isinstance(raw.get("cognomen"), dict):

@@ -29,15 +29,17 @@ def make_client() -> LanguageClient:
 
 
 @contextlib.asynccontextmanager
-async def lsp_client(root: Path, options: dict | None = None, model_dir: Path | None = None,
-                     editor: str = "neovim@v0.10.0"):
+async def lsp_client(root: Path, options: dict | list | None = None, model_dir: Path | None = None,
+                     editor: str = "neovim@v0.10.0", capabilities: types.ClientCapabilities | None = None):
+    """A session with `cognomen serve`; the client declares the capabilities pytest-lsp recorded from
+    `editor` (or `capabilities`, when given)."""
     command = [sys.executable, "-m", "cognomen"]
     if model_dir is not None:
         command += ["--model-dir", str(model_dir)]
     command.append("serve")
     client = await ClientServerConfig(server_command=command, client_factory=make_client).start()
     await client.initialize_session(types.InitializeParams(
-        capabilities=client_capabilities(editor),
+        capabilities=capabilities or client_capabilities(editor),
         root_uri=root.as_uri(),
         workspace_folders=[types.WorkspaceFolder(uri=root.as_uri(), name=root.name)],
         initialization_options=options,

@@ -1,11 +1,13 @@
 """The language server end to end: a real client over stdio, the demo repository, a trained model."""
 
 import asyncio
+import re
 import shutil
 
 import pytest
 from lsprotocol import types
 from pygls.exceptions import JsonRpcException
+from pytest_lsp import client_capabilities
 
 from .conftest import run_cli
 from .lsp_helpers import code_actions_at, diagnostics_for, lsp_client, open_document, published
@@ -222,3 +224,47 @@ async def test_a_damaged_new_model_is_refused_and_the_old_one_stays(workspace):
         hover = await client.text_document_hover_async(types.HoverParams(
             text_document=types.TextDocumentIdentifier(uri=uri), position=types.Position(line=26, character=9)))
         assert hover is not None and "`valve` does not fit" in hover.contents.value
+
+
+async def test_positions_past_the_end_of_a_line(workspace):
+    path = workspace / "fernhill" / "alerts.py"
+    line = path.read_text().split("\n")[33]
+    assert line == "    return alerts"
+    document = types.TextDocumentIdentifier(uri=path.as_uri())
+    async with lsp_client(workspace) as client:
+        uri = open_document(client, path)
+        await diagnostics_for(client, uri)
+        at_the_end = await client.text_document_hover_async(types.HoverParams(
+            text_document=document, position=types.Position(line=33, character=len(line))))
+        assert at_the_end is not None and "alerts" in at_the_end.contents.value
+        past = types.Position(line=33, character=len(line) + 40)
+        assert await client.text_document_hover_async(types.HoverParams(text_document=document, position=past)) is None
+        # The LSP specification: a character past the line's end defaults back to the line's end.
+        actions = await code_actions_at(client, uri, past)
+        assert actions and all("`alerts`" in action.title for action in actions)
+        await client.text_document_completion_async(types.CompletionParams(text_document=document, position=past))
+
+
+async def test_an_empty_list_of_initialization_options_is_no_settings(workspace):
+    # Neovim's Lua encodes an empty table `{}` as the JSON array `[]`.
+    async with lsp_client(workspace, options=[]) as client:
+        uri = open_document(client, workspace / "fernhill" / "alerts.py")
+        assert len(await diagnostics_for(client, uri)) == 1
+        assert not [m.message for m in client.messages if "setting" in m.message]
+
+
+async def test_hover_in_plain_text_for_a_client_without_markdown(workspace):
+    path = workspace / "fernhill" / "alerts.py"
+    text = path.read_text()
+    capabilities = client_capabilities("neovim@v0.10.0")
+    capabilities.text_document.hover.content_format = [types.MarkupKind.PlainText]
+    async with lsp_client(workspace, capabilities=capabilities) as client:
+        uri = open_document(client, path)
+        await diagnostics_for(client, uri)
+        hover = await client.text_document_hover_async(types.HoverParams(
+            text_document=types.TextDocumentIdentifier(uri=uri), position=position_of(text, "valve.target")))
+    assert hover.contents.kind == types.MarkupKind.PlainText
+    value = hover.contents.value
+    assert value.startswith("valve does not fit how it is used here")
+    assert "\n- zone (" in value and "`" not in value and "file://" not in value and "](" not in value
+    assert re.search(r"fernhill/\w+\.py:\d+", value), "evidence as plain paths"
