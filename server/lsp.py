@@ -28,6 +28,7 @@ from cognomen.model.persistence import load_scorer
 from cognomen.model.scoring import Scorer
 from cognomen.model.tokens import language_for_path
 
+from . import first_model
 from .review import level_of
 from .settings import LEVELS, ServerSettings, parse_settings
 
@@ -81,6 +82,8 @@ class NameServer(LanguageServer):
         self.watcher: asyncio.Task | None = None
         self.model_ready = asyncio.Event()  # set once the first attempt to load a model has ended
         self.refused_model_id: str | None = None  # a model that failed verification, not retried
+        self.training: asyncio.subprocess.Process | None = None  # `cognomen train` run for a first model
+        self.offer: asyncio.Task | None = None
 
     # --- model ----------------------------------------------------------------------------
 
@@ -105,14 +108,15 @@ class NameServer(LanguageServer):
             self.scorer, self.model_id = None, None
             if not self.told_no_model:
                 self.told_no_model = True
-                where = store or "the workspace"
-                self.window_show_message(types.ShowMessageParams(
-                    type=types.MessageType.Info,
-                    message=f"cognomen: no model found in {where}; run `cognomen train` in the repository to "
-                            f"get name hints"))
+                root = self.workspace.root_path if self.workspace else None
+                if store is not None and root and self.training is None and first_model.can_offer(self):
+                    self.offer = asyncio.ensure_future(first_model.offer_training(self, store, Path(root)))
+                else:
+                    self.window_show_message(types.ShowMessageParams(
+                        type=types.MessageType.Info, message=first_model.no_model_text(store or "the workspace")))
             return
         token = f"cognomen-load-{time.monotonic_ns()}"
-        progress = announce and self._supports_progress()
+        progress = announce and self.supports_progress()
         if progress:
             try:
                 await self.work_done_progress.create_async(token)
@@ -143,7 +147,7 @@ class NameServer(LanguageServer):
         for uri in list(self.analyses):
             self.schedule(uri, delay=0.0)
 
-    def _supports_progress(self) -> bool:
+    def supports_progress(self) -> bool:
         capabilities = self.client_capabilities
         window = capabilities.window if capabilities else None
         return bool(window and window.work_done_progress)
@@ -403,6 +407,7 @@ def build_server(model_dir: str | None = None) -> NameServer:
             ls.watcher.cancel()
         for task in ls.pending.values():
             task.cancel()
+        first_model.stop_training(ls)
         ls.analysis_pool.shutdown(wait=False, cancel_futures=True)
 
     return server

@@ -9,7 +9,7 @@ from lsprotocol import types
 from pygls.exceptions import JsonRpcException
 from pytest_lsp import client_capabilities
 
-from .conftest import run_cli
+from .conftest import DEMO, STDLIB, run_cli
 from .lsp_helpers import code_actions_at, diagnostics_for, lsp_client, open_document, published
 
 pytestmark = pytest.mark.asyncio(loop_scope="function")
@@ -143,7 +143,8 @@ async def test_bad_settings_are_reported_and_defaults_used(workspace):
 
 async def test_without_a_model_the_server_says_so_once_and_answers_empty(tmp_path):
     (tmp_path / "a.py").write_text("def f(value):\n    total = value\n    return total\n")
-    async with lsp_client(tmp_path) as client:
+    # Emacs 29 declares no window.showMessage: it gets the plain message, not the offer to train.
+    async with lsp_client(tmp_path, editor="emacs@v29.1") as client:
         uri = open_document(client, tmp_path / "a.py")
         diagnostics = await diagnostics_for(client, uri)
         assert list(diagnostics) == []
@@ -151,6 +152,7 @@ async def test_without_a_model_the_server_says_so_once_and_answers_empty(tmp_pat
             text_document=types.TextDocumentIdentifier(uri=uri), position=types.Position(line=1, character=5)))
         assert hover is None
         assert len([m for m in client.messages if "no model found" in m.message]) == 1
+        assert client.message_requests == [] and not (tmp_path / ".cognomen").exists()
 
 
 async def test_new_model_is_loaded_without_a_restart(workspace):
@@ -268,3 +270,30 @@ async def test_hover_in_plain_text_for_a_client_without_markdown(workspace):
     assert value.startswith("valve does not fit how it is used here")
     assert "\n- zone (" in value and "`" not in value and "file://" not in value and "](" not in value
     assert re.search(r"fernhill/\w+\.py:\d+", value), "evidence as plain paths"
+
+
+async def test_first_run_offers_to_train_and_the_hints_follow(tmp_path):
+    repo = tmp_path / "fernhill"
+    shutil.copytree(DEMO, repo, ignore=shutil.ignore_patterns(".cognomen", "__pycache__", "changes"))
+    # Enough Python for the model to judge names in it (the demo alone gets suggestions only), and a
+    # threshold setting, since so little held-out code calibrates none.
+    (repo / "lib").mkdir()
+    for module in ("shutil.py", "tarfile.py", "zipfile.py", "configparser.py", "csv.py", "argparse.py"):
+        shutil.copy(STDLIB / module, repo / "lib" / module)
+    options = {"threshold": -100.0, "reloadSeconds": 0.2}
+    async with lsp_client(repo, options=options, answer="Train now") as client:
+        uri = open_document(client, repo / "fernhill" / "alerts.py")
+        assert list(await diagnostics_for(client, uri)) == [], "no model yet"
+        seen = published(client, uri)
+        diagnostics = await diagnostics_for(client, uri, after=seen, timeout=180)
+        [offer] = client.message_requests
+        assert [action.title for action in offer.actions] == ["Train now", "Not now"]
+        assert (repo / ".cognomen" / "current").is_file(), "the real `cognomen train` promoted a model"
+        assert any(d.code == "name-does-not-fit" for d in diagnostics)
+        reports = [r for values in client.progress_reports.values() for r in values]
+        begin = next(r for r in reports if isinstance(r, types.WorkDoneProgressBegin))
+        assert begin.message == "training the naming model"
+        assert any(isinstance(r, types.WorkDoneProgressReport) and "found" in (r.message or "") for r in reports)
+        assert any(isinstance(r, types.WorkDoneProgressEnd) and r.message == "done; loading the model"
+                   for r in reports)
+        assert not [m for m in client.messages if "no model found" in m.message]
