@@ -28,7 +28,7 @@ class NothingToLearn(Exception):
 class PromotionPolicy:
     """When a freshly trained model may replace the current one."""
 
-    tolerance: float = 0.02  # largest allowed drop in recovery@5 and in detection recall
+    tolerance: float = 0.02  # largest allowed drop in 'found in top 5' and in 'misnames flagged'
     force: bool = False
 
 
