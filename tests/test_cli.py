@@ -73,6 +73,15 @@ def test_nothing_to_learn(tmp_path):
     assert "Traceback" not in result.stderr
 
 
+def test_a_malformed_settings_file_is_one_line_for_every_command_that_reads_it(tmp_path):
+    (tmp_path / "a.py").write_text("def f(value):\n    return value\n")
+    (tmp_path / "cognomen.toml").write_text("include = [\n")
+    for command in ("train", "eval", "vocab"):
+        result = run_cli(command, str(tmp_path), cwd=tmp_path)
+        assert result.returncode == 2 and "Traceback" not in result.stderr, command
+        assert "cognomen.toml: not valid TOML" in result.stderr, command
+
+
 def test_bad_input_never_tracebacks(demo_copy, tmp_path):
     cases = [
         ("check", "no/such/file.py"),

@@ -3,15 +3,15 @@
 from __future__ import annotations
 
 import json
-from pathlib import Path
 
 from cognomen.model import bundle
-from cognomen.model.corpus import TokenCache, discover, load_corpus, read_settings
+from cognomen.model.corpus import TokenCache, load_corpus
 from cognomen.model.evaluation import evaluate_corpus, format_table
 from cognomen.model.measures import public_evaluation
 from cognomen.model.training import TrainSettings
 
 from .exits import OK, UsageError
+from .folders import folder, source_files
 from .store import store_for
 
 
@@ -26,12 +26,8 @@ def register(commands) -> None:
 
 
 def run(args) -> int:
-    path = Path(args.path)
-    if not path.is_dir():
-        raise UsageError(f"{path} is not a directory")
-    selection = discover(path.resolve(), read_settings(path))
-    if not selection.files:
-        raise UsageError(f"nothing to learn from: 0 source files under {path}")
+    path = folder(args.path)
+    selection = source_files(path)
     store = store_for(args, path)
     bundle.prepare_store(store)
     corpus = load_corpus(selection, TokenCache(store / "cache"))

@@ -3,13 +3,13 @@
 from __future__ import annotations
 
 import time
-from pathlib import Path
 
 from cognomen.model.measures import label
-from cognomen.model.pipeline import PromotionPolicy, NothingToLearn, train_repository
+from cognomen.model.pipeline import NothingToLearn, PromotionPolicy, train_repository
 from cognomen.model.training import TrainSettings
 
-from .exits import NOT_PROMOTED, INTERRUPTED, OK, UsageError, say
+from .exits import INTERRUPTED, NOT_PROMOTED, OK, UsageError, say
+from .folders import folder, repository_settings
 from .store import store_for
 
 
@@ -67,9 +67,8 @@ class TrainReport:
 
 
 def run(args) -> int:
-    path = Path(args.path)
-    if not path.is_dir():
-        raise UsageError(f"{path} is not a directory")
+    path = folder(args.path)
+    repository_settings(path)  # a malformed settings file: one line, before any work
     store = store_for(args, path)
     settings = TrainSettings(vocabulary_size=args.vocabulary_size, min_count=args.min_count,
                              epochs=args.epochs, flag_budget=args.flag_budget, seed=args.seed)

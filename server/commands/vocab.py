@@ -6,10 +6,10 @@ import json
 from pathlib import Path
 
 from cognomen.model import bundle
-from cognomen.model.corpus import discover, read_settings
 from cognomen.model.vocab_report import build_report, markdown, write_plots
 
 from .exits import OK, UsageError
+from .folders import folder, source_files
 from .store import store_for
 
 
@@ -23,15 +23,8 @@ def register(commands) -> None:
 
 
 def run(args) -> int:
-    path = Path(args.path)
-    if not path.is_dir():
-        raise UsageError(f"{path} is not a directory")
-    try:
-        selection = discover(path.resolve(), read_settings(path))
-    except ValueError as error:
-        raise UsageError(str(error)) from None
-    if not selection.files:
-        raise UsageError(f"nothing to learn from: 0 source files under {path}")
+    path = folder(args.path)
+    selection = source_files(path)
     report = build_report(selection.root, selection.files, model_sizes(store_for(args, path)),
                           max_files=args.max_files)
     if report.files == 0:
