@@ -2,9 +2,6 @@
 
 import json
 import re
-import shutil
-
-import pytest
 
 from .conftest import run_cli
 
@@ -165,53 +162,45 @@ def test_each_measure_has_one_name_in_every_output(demo_copy, tmp_path):
     assert len(set(NAMES.values())) == len(NAMES), "no two measures share a name"
 
 
-@pytest.fixture()
-def own_demo(demo_copy, tmp_path):
-    """A private copy of the trained demo repository, free to change."""
-    target = tmp_path / "fernhill"
-    shutil.copytree(demo_copy, target, symlinks=True)
-    return target
-
-
-def test_check_a_folder_skips_what_training_skips_and_counts_it(own_demo):
-    (own_demo / "fernhill" / "blob.py").write_bytes(b"\0\1\2binary")
-    (own_demo / "fernhill" / "packed.py").write_text("DATA = [" + "1, " * 11_000 + "]\n")  # one 33 KB line
-    (own_demo / "fernhill" / "widget_pb2.py").write_text("def f(value):\n    return value\n")
-    result = run_cli("check", "fernhill", cwd=own_demo)
+def test_check_a_folder_skips_what_training_skips_and_counts_it(workspace):
+    (workspace / "fernhill" / "blob.py").write_bytes(b"\0\1\2binary")
+    (workspace / "fernhill" / "packed.py").write_text("DATA = [" + "1, " * 11_000 + "]\n")  # one 33 KB line
+    (workspace / "fernhill" / "widget_pb2.py").write_text("def f(value):\n    return value\n")
+    result = run_cli("check", "fernhill", cwd=workspace)
     assert result.returncode == 0, result.stderr
     assert "note: skipped 3 files: 1 binary, 1 generated, 1 minified or generated" in result.stdout
     assert "fernhill/alerts.py:27:9: `valve` does not fit" in result.stdout
-    as_json = run_cli("check", "--format", "json", "fernhill", cwd=own_demo)
+    as_json = run_cli("check", "--format", "json", "fernhill", cwd=workspace)
     report = json.loads(as_json.stdout)
     assert report["skipped"] == {"binary": 1, "generated": 1, "minified or generated": 1}
     assert any(f["name"] == "valve" for f in report["findings"])
-    (own_demo / "stray.py").write_bytes(b"\x89PNG\r\n\x1a\n\0\0")
-    everything = run_cli("check", ".", cwd=own_demo)
+    (workspace / "stray.py").write_bytes(b"\x89PNG\r\n\x1a\n\0\0")
+    everything = run_cli("check", ".", cwd=workspace)
     assert everything.returncode == 0 and "2 binary" in everything.stdout, everything.stderr
-    named = run_cli("check", "fernhill/blob.py", cwd=own_demo)
+    named = run_cli("check", "fernhill/blob.py", cwd=workspace)
     assert named.returncode == 2 and "fernhill/blob.py: cannot read (binary)" in named.stderr
 
 
-def test_check_applies_the_training_size_limit_and_shows_progress(own_demo):
+def test_check_applies_the_training_size_limit_and_shows_progress(workspace):
     from cognomen.model.corpus import MAX_FILE_BYTES
 
-    huge = own_demo / "fernhill" / "huge.py"
+    huge = workspace / "fernhill" / "huge.py"
     body = "".join(f"def step_{i}(value):\n    total = value + {i}\n    return total\n\n" for i in range(20_000))
     huge.write_text(body)
     assert huge.stat().st_size > MAX_FILE_BYTES
-    folder = run_cli("check", "fernhill", cwd=own_demo)
+    folder = run_cli("check", "fernhill", cwd=workspace)
     assert folder.returncode == 0 and "note: skipped 1 file: 1 over 1 MiB" in folder.stdout
-    named = run_cli("check", "fernhill/huge.py", cwd=own_demo)
+    named = run_cli("check", "fernhill/huge.py", cwd=workspace)
     assert named.returncode == 0
     assert "fernhill/huge.py: over 1 MiB; skipped (--max-file-size raises the limit)" in named.stdout
     assert named.stdout.splitlines()[-1] == "0 oddly named variables in 0 files"
-    raised = run_cli("check", "--format", "json", "--max-file-size", "2M", "fernhill/huge.py", cwd=own_demo)
+    raised = run_cli("check", "--format", "json", "--max-file-size", "2M", "fernhill/huge.py", cwd=workspace)
     assert raised.returncode == 0, raised.stderr
     assert "findings" in json.loads(raised.stdout), "stdout holds only the JSON"
     assert "checking 1/1: fernhill/huge.py (1," in raised.stderr
-    quiet = run_cli("check", "--quiet", "--max-file-size", "2M", "fernhill/huge.py", cwd=own_demo)
+    quiet = run_cli("check", "--quiet", "--max-file-size", "2M", "fernhill/huge.py", cwd=workspace)
     assert quiet.returncode == 0 and quiet.stderr == ""
-    bad = run_cli("check", "--max-file-size", "lots", "fernhill/huge.py", cwd=own_demo)
+    bad = run_cli("check", "--max-file-size", "lots", "fernhill/huge.py", cwd=workspace)
     assert bad.returncode == 2 and "'lots' is not a size" in bad.stderr
 
 

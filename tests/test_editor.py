@@ -27,9 +27,7 @@ def assert_renamed_in_the_buffer_only(buffer: str, workspace: Path) -> None:
 
 
 @pytest.mark.skipif(NVIM is None, reason="Neovim is not installed (apt-get install -y neovim)")
-def test_neovim_shows_the_hint_and_applies_the_quick_fix(demo_copy, tmp_path):
-    workspace = tmp_path / "fernhill"
-    shutil.copytree(demo_copy, workspace, symlinks=True)
+def test_neovim_shows_the_hint_and_applies_the_quick_fix(workspace, tmp_path):
     out = tmp_path / "buffer.txt"
     environment = dict(os.environ, COGNOMEN_ROOT=str(workspace), COGNOMEN_FILE=str(workspace / "fernhill/alerts.py"),
                        COGNOMEN_OUT=str(out), COGNOMEN_PYTHON=sys.executable)
@@ -52,9 +50,7 @@ def readme_eglot_setup() -> str:
 
 @pytest.mark.skipif(EMACS is None or not DEBIAN_EGLOT,
                     reason="Emacs with eglot is not installed (apt-get install -y emacs-nox elpa-eglot)")
-def test_emacs_eglot_shows_the_hint_and_applies_the_quick_fix(demo_copy, tmp_path):
-    workspace = tmp_path / "fernhill"
-    shutil.copytree(demo_copy, workspace, symlinks=True)
+def test_emacs_eglot_shows_the_hint_and_applies_the_quick_fix(workspace, tmp_path):
     setup = tmp_path / "init.el"
     setup.write_text(readme_eglot_setup())
     out = tmp_path / "buffer.txt"

@@ -1,6 +1,7 @@
 """The language server end to end: a real client over stdio, the demo repository, a trained model."""
 
 import asyncio
+import contextlib
 import re
 import shutil
 
@@ -13,14 +14,6 @@ from .conftest import DEMO, STDLIB, run_cli
 from .lsp_helpers import code_actions_at, diagnostics_for, lsp_client, open_document, published
 
 pytestmark = pytest.mark.asyncio(loop_scope="function")
-
-
-@pytest.fixture()
-def workspace(demo_copy, tmp_path):
-    """A private copy of the trained demo repository per test."""
-    target = tmp_path / "fernhill"
-    shutil.copytree(demo_copy, target, symlinks=True)
-    return target
 
 
 def position_of(text: str, needle: str, nth: int = 0) -> types.Position:
@@ -91,14 +84,22 @@ async def test_refactor_for_any_variable_and_public_parameters(workspace):
         assert actions and all("callers passing it by keyword will break" in a.title for a in actions)
 
 
-async def test_hover_explains_the_fit(workspace):
+@contextlib.asynccontextmanager
+async def hover_on_valve(workspace, **session):
+    """The hover on `valve` in the demo's alerts.py, the file's text, and the client still in session."""
     path = workspace / "fernhill" / "alerts.py"
     text = path.read_text()
-    async with lsp_client(workspace) as client:
+    async with lsp_client(workspace, **session) as client:
         uri = open_document(client, path)
         await diagnostics_for(client, uri)
         hover = await client.text_document_hover_async(types.HoverParams(
             text_document=types.TextDocumentIdentifier(uri=uri), position=position_of(text, "valve.target")))
+        yield hover, text, client
+
+
+async def test_hover_explains_the_fit(workspace):
+    async with hover_on_valve(workspace) as (hover, text, client):
+        uri = (workspace / "fernhill" / "alerts.py").as_uri()
         assert hover.contents.kind == types.MarkupKind.Markdown
         assert "`valve` does not fit how it is used here" in hover.contents.value
         assert "- `zone`" in hover.contents.value and "](file://" in hover.contents.value
@@ -256,20 +257,20 @@ async def test_an_empty_list_of_initialization_options_is_no_settings(workspace)
 
 
 async def test_hover_in_plain_text_for_a_client_without_markdown(workspace):
-    path = workspace / "fernhill" / "alerts.py"
-    text = path.read_text()
     capabilities = client_capabilities("neovim@v0.10.0")
     capabilities.text_document.hover.content_format = [types.MarkupKind.PlainText]
-    async with lsp_client(workspace, capabilities=capabilities) as client:
-        uri = open_document(client, path)
-        await diagnostics_for(client, uri)
-        hover = await client.text_document_hover_async(types.HoverParams(
-            text_document=types.TextDocumentIdentifier(uri=uri), position=position_of(text, "valve.target")))
+    async with hover_on_valve(workspace, capabilities=capabilities) as (hover, _, _):
+        pass
     assert hover.contents.kind == types.MarkupKind.PlainText
     value = hover.contents.value
     assert value.startswith("valve does not fit how it is used here")
     assert "\n- zone (" in value and "`" not in value and "file://" not in value and "](" not in value
     assert re.search(r"fernhill/\w+\.py:\d+", value), "evidence as plain paths"
+
+
+def progress_values(client) -> list:
+    """Every work-done progress value the client received, in order per token."""
+    return [value for values in client.progress_reports.values() for value in values]
 
 
 async def test_first_run_offers_to_train_and_the_hints_follow(tmp_path):
@@ -284,13 +285,22 @@ async def test_first_run_offers_to_train_and_the_hints_follow(tmp_path):
     async with lsp_client(repo, options=options, answer="Train now") as client:
         uri = open_document(client, repo / "fernhill" / "alerts.py")
         assert list(await diagnostics_for(client, uri)) == [], "no model yet"
-        seen = published(client, uri)
-        diagnostics = await diagnostics_for(client, uri, after=seen, timeout=180)
+        diagnostics = []
+        for _ in range(20):  # each publish after the first: until the trained model's hints arrive
+            diagnostics = await diagnostics_for(client, uri, after=published(client, uri), timeout=180)
+            if diagnostics:
+                break
         [offer] = client.message_requests
         assert [action.title for action in offer.actions] == ["Train now", "Not now"]
         assert (repo / ".cognomen" / "current").is_file(), "the real `cognomen train` promoted a model"
         assert any(d.code == "name-does-not-fit" for d in diagnostics)
-        reports = [r for values in client.progress_reports.values() for r in values]
+        # The model may be loaded (and hints shown) a moment before the training process has exited.
+        for _ in range(300):
+            if any(isinstance(r, types.WorkDoneProgressEnd) and r.message == "done; loading the model"
+                   for r in progress_values(client)):
+                break
+            await asyncio.sleep(0.1)
+        reports = progress_values(client)
         begin = next(r for r in reports if isinstance(r, types.WorkDoneProgressBegin))
         assert begin.message == "training the naming model"
         assert any(isinstance(r, types.WorkDoneProgressReport) and "found" in (r.message or "") for r in reports)
