@@ -29,7 +29,7 @@ from cognomen.model.scoring import Scorer
 from cognomen.model.tokens import language_for_path
 
 from . import first_model
-from .review import level_of
+from .review import calibrated_threshold, level_of
 from .settings import LEVELS, ServerSettings, parse_settings
 
 log = logging.getLogger("cognomen.server")
@@ -219,7 +219,7 @@ class NameServer(LanguageServer):
         scorer = self.scorer  # the same model throughout, even if a new one is swapped in meanwhile
         findings = check_source(scorer, source, self.settings.threshold, cache=cache) if scorer else []
         minimum = LEVELS.index(self.settings.minimum_level)
-        findings = [f for f in findings if LEVELS.index(level_of(f, scorer.threshold)) >= minimum]
+        findings = [f for f in findings if LEVELS.index(level_of(f, calibrated_threshold(scorer, f))) >= minimum]
         return Analysis(version, source, findings)
 
     def pieces(self, uri: str) -> PieceCache:

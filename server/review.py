@@ -40,13 +40,18 @@ class ReviewResult:
     suppressed: int = 0
     files: int = 0
     skipped: dict[str, int] = field(default_factory=dict)
-    calibrated: float = math.inf  # the model's own threshold, which decides each finding's level
+    scorer: Scorer | None = None  # the model whose own thresholds decide each finding's level
 
     def level(self, finding: Finding) -> str:
-        return level_of(finding, self.calibrated)
+        return level_of(finding, calibrated_threshold(self.scorer, finding))
 
     def skip(self, reason: str) -> None:
         self.skipped[reason] = self.skipped.get(reason, 0) + 1
+
+
+def calibrated_threshold(scorer: Scorer | None, finding: Finding) -> float:
+    """The model's own threshold for a finding, before any override: what decides its level."""
+    return scorer.threshold if scorer is not None else math.inf
 
 
 def level_of(finding: Finding, calibrated: float) -> str:
@@ -165,7 +170,7 @@ def has_keep_marker(lines: list[str], finding: Finding) -> bool:
 def review(scorer: Scorer, root: Path, base: str, head: str | None = None,
            threshold: float | None = None) -> ReviewResult:
     """Findings whose binding or a use sits on a line the change added or changed."""
-    result = ReviewResult(calibrated=scorer.threshold)
+    result = ReviewResult(scorer=scorer)
     accepted = accepted_names(root)
     for changed in changed_files(root, base, head, result):
         source = analyse_text(changed.text, changed.path)
