@@ -13,9 +13,13 @@ from pathlib import Path
 
 import numpy as np
 
-FORMAT_VERSION = 4
+FORMAT_VERSION = 5  # 5: per-language thresholds, name flow; 4: measures under their public names
 MANIFEST = "manifest.json"
 CURRENT = "current"
+PROMOTABLE = "models"  # models that passed the promotion check (or were forced through it)
+REFUSED = "refused"  # models the promotion check refused: kept apart, never counted by --keep
+# The store holds trained models and caches, never anything to commit: it ignores itself.
+STORE_GITIGNORE = "# written by cognomen: the model store is never committed\n*\n"
 
 
 class ModelError(Exception):
@@ -44,14 +48,23 @@ def _sha256(path: Path) -> str:
     return digest.hexdigest()
 
 
+def prepare_store(store: Path) -> None:
+    """Create the store if needed, with a `.gitignore` that keeps all of it out of git."""
+    store.mkdir(parents=True, exist_ok=True)
+    ignore = store / ".gitignore"
+    if not ignore.exists():
+        ignore.write_text(STORE_GITIGNORE, encoding="utf-8")
+
+
 def new_model_id() -> str:
     return time.strftime("%Y%m%d-%H%M%S", time.gmtime()) + "-" + os.urandom(3).hex()
 
 
 def write_model(store: Path, manifest: dict, documents: dict[str, object],
-                arrays: dict[str, np.ndarray], model_id: str | None = None) -> Path:
-    """Write a complete model into store/models/<id>; nothing is visible there until it is whole."""
-    models = store / "models"
+                arrays: dict[str, np.ndarray], model_id: str | None = None, refused: bool = False) -> Path:
+    """Write a complete model into store/models/<id> (or refused/<id>); nothing is visible there until it is whole."""
+    prepare_store(store)
+    models = store / (REFUSED if refused else PROMOTABLE)
     models.mkdir(parents=True, exist_ok=True)
     model_id = model_id or new_model_id()
     staging = Path(tempfile.mkdtemp(prefix=".incomplete-", dir=models))
@@ -96,8 +109,16 @@ def _fsync_directory(path: Path) -> None:
 
 
 def promote(store: Path, model_id: str) -> None:
-    """Point `current` at a model, atomically: readers see the old id or the new one, never neither."""
-    load_model(store / "models" / model_id)  # refuse to point at anything that does not verify
+    """Point `current` at a model, atomically: readers see the old id or the new one, never neither.
+
+    A model the promotion check refused moves back among the promotable ones first: a person
+    promoting it overrules the check.
+    """
+    set_aside = store / REFUSED / model_id
+    load_model(set_aside if set_aside.is_dir() else store / PROMOTABLE / model_id)  # refuse what does not verify
+    if set_aside.is_dir():
+        (store / PROMOTABLE).mkdir(parents=True, exist_ok=True)
+        os.rename(set_aside, store / PROMOTABLE / model_id)
     pointer = store / CURRENT
     temporary = store / f".{CURRENT}.{os.getpid()}.tmp"
     temporary.write_text(model_id + "\n", encoding="utf-8")
@@ -160,9 +181,18 @@ def load_model(directory: Path) -> Bundle:
     return Bundle(directory, manifest, documents, arrays)
 
 
-def list_models(store: Path) -> list[dict]:
-    """Manifests of every complete model in the store, newest first."""
-    models = store / "models"
+def problem_with(directory: Path) -> str | None:
+    """Why a model directory would be refused on loading (missing, damaged, old format), or None."""
+    try:
+        load_model(directory)
+    except ModelError as error:
+        return str(error)
+    return None
+
+
+def list_models(store: Path, folder: str = PROMOTABLE) -> list[dict]:
+    """Manifests of every complete model in a folder of the store (promotable ones by default), newest first."""
+    models = store / folder
     found = []
     if not models.is_dir():
         return found
@@ -178,15 +208,19 @@ def list_models(store: Path) -> list[dict]:
 
 
 def prune(store: Path, keep: int) -> list[str]:
-    """Delete all but the newest `keep` models, never the current one; returns the deleted ids."""
+    """Delete all but the newest `keep` models, never the current one; returns the deleted ids.
+
+    Refused models are counted apart, so refused retrains never push a good model out.
+    """
     current = current_model_id(store)
     deleted = []
-    for index, manifest in enumerate(list_models(store)):
-        model_id = manifest.get("model_id", "")
-        if index >= keep and model_id != current and model_id:
-            shutil.rmtree(store / "models" / model_id, ignore_errors=True)
-            deleted.append(model_id)
-    for leftover in (store / "models").glob(".incomplete-*") if (store / "models").is_dir() else []:
-        if time.time() - leftover.stat().st_mtime > 3600:
-            shutil.rmtree(leftover, ignore_errors=True)
+    for folder in (PROMOTABLE, REFUSED):
+        for index, manifest in enumerate(list_models(store, folder)):
+            model_id = manifest.get("model_id", "")
+            if index >= keep and model_id != current and model_id:
+                shutil.rmtree(store / folder / model_id, ignore_errors=True)
+                deleted.append(model_id)
+        for leftover in (store / folder).glob(".incomplete-*") if (store / folder).is_dir() else []:
+            if time.time() - leftover.stat().st_mtime > 3600:
+                shutil.rmtree(leftover, ignore_errors=True)
     return deleted

@@ -101,7 +101,15 @@ def repository_root(path: Path) -> Path | None:
     return Path(result.stdout.strip())
 
 
-def discover(root: Path, settings: Settings | None = None) -> Selection:
+def size_limit_reason(max_bytes: int) -> str:
+    """Why a file over the size limit was skipped, in the summary's words ("over 1 MiB")."""
+    for unit, size in (("MiB", 1 << 20), ("KiB", 1 << 10)):
+        if max_bytes >= size and max_bytes % size == 0:
+            return f"over {max_bytes // size:,} {unit}"
+    return f"over {max_bytes:,} bytes"
+
+
+def discover(root: Path, settings: Settings | None = None, max_bytes: int = MAX_FILE_BYTES) -> Selection:
     """Source files under root: git-tracked files inside a work tree, else a directory walk."""
     root = root.resolve()
     settings = settings or read_settings(root)
@@ -133,8 +141,8 @@ def discover(root: Path, settings: Settings | None = None) -> Selection:
         except OSError:
             selection.skip("unreadable")
             continue
-        if size > MAX_FILE_BYTES:
-            selection.skip("over 1 MiB")
+        if size > max_bytes:
+            selection.skip(size_limit_reason(max_bytes))
             continue
         selection.files.append(relative)
     return selection

@@ -37,6 +37,7 @@ class FileCounts:
     owners: np.ndarray  # which variable each key belongs to
     variables: list[int] = field(default_factory=list)  # each counted variable's index in the file
     lines: int = 0
+    ids: np.ndarray | None = field(default=None, repr=False)  # the file's token ids, kept while training
 
     @property
     def name_weights(self) -> np.ndarray:
@@ -56,7 +57,7 @@ def count_file(source: SourceFile, vocabulary: Vocabulary, weight: float = 1.0, 
     slots = np.arange(contexts.shape[1], dtype=np.int64) if positional else np.zeros(contexts.shape[1], np.int64)
     keys = (slots[None, :] * len(vocabulary) + contexts).ravel()
     return FileCounts(source.path, source.language, weight, [v.name for v in variables], counts, keys,
-                      np.repeat(owners, contexts.shape[1]), chosen, source.lines)
+                      np.repeat(owners, contexts.shape[1]), chosen, source.lines, ids)
 
 
 def build_tables(counts: list[FileCounts], sources: dict[str, SourceFile], vocabulary: Vocabulary,
@@ -203,7 +204,8 @@ def forget_file(tables: NameTables, source: SourceFile, weight: float = 1.0, who
                        if text in index and vocabulary.counts[index[text]] - count < tables.min_count)
     share = share or count_file(source, vocabulary, weight, tables.positional)
     holdout = Holdout(tables, share, file_flow(source.variables, weight), whole_file, unseen)
-    ids = token_ids(source, vocabulary)
+    holdout.flow_is_current = weight == 1.0
+    ids = share.ids.copy() if share.ids is not None else token_ids(source, vocabulary)
     if unseen:
         ids[np.isin(ids, np.array([index[text] for text in unseen]))] = 0
     return holdout, ids
@@ -222,6 +224,7 @@ class Holdout:
         self.flow = flow
         self.whole_file = whole_file
         self.unseen = unseen  # tokens in the vocabulary only because of this file
+        self.flow_is_current = False  # whether `flow` is the file as it stands (then it cancels out)
         rows = _rows(tables.row_by_name, share)
         known = rows >= 0
         self.name_counts = np.zeros(len(tables.names))

@@ -10,6 +10,7 @@ from dataclasses import dataclass, field
 import numpy as np
 
 from .corpus import Corpus
+from .measures import label
 from .reranking import flow_names
 from .scoring import IGNORED_NAMES, Scorer, allowed_mask, detection_features, name_fit, rank_in_batches, token_ids
 from .training import TrainSettings, auc, file_local_names, rename, seed_misname, split_files, train
@@ -161,21 +162,19 @@ def _tally(tallies: dict[str, Tally], scorer: Scorer, ranking, allowed, name, va
 
 
 def format_table(result: dict) -> str:
-    """The evaluation as a plain text table."""
-    columns = ("recovery_at_1", "recovery_at_5", "detection_auc", "recall_at_1_per_kloc", "recall_at_threshold",
-               "false_alarms_per_kloc")
-    headings = ("recovery@1", "recovery@5", "AUC", "recall@1/kLOC", "recall@thr", "alarms/kLOC")
+    """The evaluation as a plain text table: one row per measure (named as in `measures`), one column per scorer."""
+    rows = ("recovery_at_1", "recovery_at_5", "true_name_reachable", "detection_auc", "recall_at_threshold",
+            "recall_at_1_per_kloc", "false_alarms_per_kloc")
+    width = max(len(label(row)) for row in rows) + 2
     lines = [f"held out: {result['files']['held_out']} files, {result['held_out_lines']:,} lines, "
-             f"{result['variables']:,} variables, {result['seeded']:,} seeded misnames",
-             f"{'scorer':16}" + "".join(f"{h:>14}" for h in headings)]
-    for name, figures in result["scorers"].items():
+             f"{result['variables']:,} variables, {result['seeded']:,} {label('seeded')}",
+             f"{'':{width}}" + "".join(f"{name:>16}" for name in result["scorers"])]
+    for row in rows:
         cells = []
-        for column in columns:
-            value = figures.get(column)
-            cells.append(f"{'-':>14}" if value is None or value != value else f"{value:>14.3f}")
-        lines.append(f"{name:16}" + "".join(cells))
-    reachable = result["scorers"].get("model", {}).get("true_name_reachable")
-    if reachable is not None:
-        lines.append(f"the true name was among the names ranked at all for {reachable:.1%} of seeded misnames "
-                     f"(the ceiling for recovery)")
+        for figures in result["scorers"].values():
+            value = figures.get(row)
+            cells.append(f"{'-':>16}" if value is None or value != value else f"{value:>16.3f}")
+        lines.append(f"{label(row):{width}}" + "".join(cells))
+    lines.append(f"({label('true_name_reachable')}: the ceiling for {label('recovery_at_5')}; a name never ranked "
+                 f"cannot be suggested)")
     return "\n".join(lines)

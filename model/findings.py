@@ -34,6 +34,8 @@ class Finding:
     variable: Variable = field(repr=False)
     occurrences: list[tuple[int, int]] = field(default_factory=list)  # (line, column) of every use
     shorthand: dict[tuple[int, int], str] = field(default_factory=dict)  # uses that also name a property
+    language: str = ""
+    dictated: str = ""  # why the name is never flagged (an override's parameter...), or ""
 
     def rename_edits(self, new_name: str) -> list[tuple[int, int, int, str]]:
         """(line, column, length, new text) for every use: a rename that changes the uses and nothing else."""
@@ -58,6 +60,11 @@ def suggestion_json(suggestion: Suggestion) -> dict:
     return found
 
 
+# A public parameter is part of a function's interface (callers may name it): it is flagged only
+# this far above the threshold, the clearest cases, where review also reports an error.
+CLEAREST_MARGIN = 2.0
+
+
 def _finding(source: SourceFile, judgement: Judgement, scorer: Scorer, threshold: float) -> Finding:
     variable = judgement.variable
     first = source.tokens[variable.occurrences[0]]
@@ -70,8 +77,10 @@ def _finding(source: SourceFile, judgement: Judgement, scorer: Scorer, threshold
     return Finding(
         path=source.path, line=first.line, column=first.column, end_line=first.line,
         end_column=first.column + len(variable.name), name=variable.name, score=judgement.oddness,
-        threshold=threshold, flagged=scorer.is_flagged(judgement, threshold),
+        threshold=threshold,
+        flagged=scorer.is_flagged(judgement, threshold + (CLEAREST_MARGIN if variable.public_parameter else 0.0)),
         suggestions=judgement.suggestions, variable=variable, occurrences=places, shorthand=shorthand,
+        language=source.language, dictated=judgement.dictated,
     )
 
 

@@ -283,7 +283,7 @@ class Flow:
     index: FlowIndex | None = None
 
     def __post_init__(self) -> None:
-        own = frozenset(index_cues(self.cues))
+        self._own = own = frozenset(index_cues(self.cues))
         self._own_given = [counts for cue, counts in self.given if cue in own]
         self._implied_parts = {name: frozenset(split_identifier(name)) for name in self.implied}
 
@@ -307,14 +307,17 @@ class Flow:
         return list(found)
 
     def features(self, name: str) -> list[float]:
-        """How the cues back a name: the best share of the team's names at a cue, counts, and
-        how many cues' words name it outright or in part."""
-        share, total = 0.0, 0.0
-        for _, counts in self.given:
+        """How the cues back a name: the best share of the team's names at a cue, counts, how many
+        cues' words name it outright or in part, and how much likelier the cues make it (see `fit`)."""
+        share, total, fit = 0.0, 0.0, 0.0
+        overall = self.index.name_share(name) if self.index is not None and self._own_given else 1.0
+        for cue, counts in self.given:
             count = counts.get(name)
             if count:
                 share = max(share, count / counts.total)
                 total += count
+            if cue in self._own:
+                fit += math.log((count + PRIOR * overall) / ((counts.total + PRIOR) * overall))
         cues = self.implied.get(name, [])
         strong = sum(1 for cue in cues if cue.split(":", 1)[0] in STRONG_KINDS)
         partial = 0.0
@@ -325,7 +328,7 @@ class Flow:
                     if other != name:
                         partial = max(partial, len(parts & other_parts) / len(parts))
         return [share, math.log1p(total), float(strong), float(len(cues) - strong), partial, float(len(self.cues)),
-                self.fit(name)]
+                fit]
 
     def best_other_share(self, name: str) -> float:
         """The largest share any other name has at any cue."""

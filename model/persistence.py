@@ -9,6 +9,7 @@ from pathlib import Path
 
 from . import bundle as store_files
 from .flow import FlowIndex
+from .measures import public
 from .reranking import Reranker
 from .scoring import Detector, NameTables, Scorer, Weights
 from .training import TrainedModel
@@ -19,8 +20,8 @@ _TABLE_ARRAYS = ("input_vectors", "output_vectors", "name_counts", "name_vocab_r
                  "evidence_path_ids", "evidence_lines", "evidence_vectors")
 
 
-def save(store: Path, trained: TrainedModel, manifest: dict) -> Path:
-    """Write a complete model into the store (not yet promoted); returns its directory."""
+def save(store: Path, trained: TrainedModel, manifest: dict, refused: bool = False) -> Path:
+    """Write a complete model into the store (not yet promoted; set apart if refused); returns its directory."""
     tables = trained.tables
     documents = {
         "vocabulary": trained.vocabulary.to_json(),
@@ -38,8 +39,9 @@ def save(store: Path, trained: TrainedModel, manifest: dict) -> Path:
     arrays = {name: getattr(tables, name) for name in _TABLE_ARRAYS}
     full = dict(manifest, created=time.strftime("%Y-%m-%dT%H:%M:%SZ", time.gmtime()),
                 thresholds={language: value for language, value in trained.thresholds.items() if math.isfinite(value)},
-                languages=trained.languages, quality=trained.quality, counts=trained.counts, seconds=trained.seconds)
-    return store_files.write_model(store, full, documents, arrays)
+                languages=trained.languages, quality=public(trained.quality), counts=trained.counts,
+                seconds=trained.seconds)
+    return store_files.write_model(store, full, documents, arrays, refused=refused)
 
 
 def scorer_from_bundle(loaded: store_files.Bundle) -> Scorer:

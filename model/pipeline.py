@@ -1,4 +1,4 @@
-"""The whole training run: discover, lex (cached), train, write, gate, promote, prune."""
+"""The whole training run: discover, lex (cached), train, write, check, promote, prune."""
 
 from __future__ import annotations
 
@@ -18,6 +18,7 @@ import numpy as np
 
 from . import bundle, persistence
 from .corpus import Corpus, Settings, TokenCache, discover, load_corpus, read_settings
+from .measures import label, public
 from .reranking import FEATURES
 from .reuse import ExampleStore, PreviousVectors, examples_key
 from .scoring import FEATURE_NAMES
@@ -30,10 +31,10 @@ class NothingToLearn(Exception):
 
 
 @dataclass
-class GatePolicy:
+class PromotionPolicy:
     """When a freshly trained model may replace the current one."""
 
-    tolerance: float = 0.02  # largest allowed drop in recovery@5 and in detection recall
+    tolerance: float = 0.02  # largest allowed drop in 'found in top 5' and in 'misnames flagged'
     force: bool = False
 
 
@@ -88,8 +89,8 @@ def fingerprint(corpus: Corpus) -> str:
     return digest.hexdigest()
 
 
-def gate(new_quality: dict, current_quality: dict, policy: GatePolicy) -> tuple[bool, str]:
-    """Promote only if recovery@5 and detection recall drop by no more than the tolerance.
+def promotion_check(new_quality: dict, current_quality: dict, policy: PromotionPolicy) -> tuple[bool, str]:
+    """Promote only if 'found in top 5' and 'misnames flagged' drop by no more than the tolerance.
 
     On small held-out sets a figure moves by chance; a drop within two standard errors of the
     measurement is not held against the new model.
@@ -97,31 +98,39 @@ def gate(new_quality: dict, current_quality: dict, policy: GatePolicy) -> tuple[
     if policy.force:
         return True, "promoted (forced)"
     reasons = []
-    samples = max(int(new_quality.get("seeded", 0) or 0), 1)
-    for key, label in (("recovery_at_5", "recovery@5"), ("recall_at_threshold", "detection recall")):
+    samples = max(int(new_quality.get("seeded_misnames", 0) or 0), 1)
+    for key in ("found_in_top_5", "misnames_flagged"):
         old, new = current_quality.get(key), new_quality.get(key)
         if old is None:
             continue
         noise = 2.0 * math.sqrt(max(old * (1.0 - old), 0.0) / samples)
         allowed = max(policy.tolerance, noise)
         if new is None:
-            reasons.append(f"{label} could not be measured (was {old:.3f})")
+            reasons.append(f"{label(key)} could not be measured (was {old:.3f})")
         elif new < old - allowed:
-            reasons.append(f"{label} fell from {old:.3f} to {new:.3f} (allowed drop {allowed:.3f})")
+            reasons.append(f"{label(key)} fell from {old:.3f} to {new:.3f} ({allowed_drop(policy.tolerance, noise, samples)})")
     if reasons:
         return False, "kept the current model: " + "; ".join(reasons)
     return True, "promoted"
 
 
-def train_repository(path: Path, store: Path, settings: TrainSettings, policy: GatePolicy | None = None,
+def allowed_drop(tolerance: float, noise: float, samples: int) -> str:
+    """How the allowed drop was decided: the tolerance, or the measurement's noise when larger."""
+    if noise > tolerance:
+        return (f"allowed drop {noise:.3f}: two standard errors of the held-out measurement on {samples:,} "
+                f"seeded misnames, larger than the tolerance {tolerance:.3f}")
+    return f"allowed drop {tolerance:.3f}: the tolerance"
+
+
+def train_repository(path: Path, store: Path, settings: TrainSettings, policy: PromotionPolicy | None = None,
                      keep: int = 4, if_changed: bool = False, report=None,
                      background: list[str] | None = None, from_scratch: bool = False) -> TrainResult:
-    """Train on the code under path and promote the model if it passes the quality gate.
+    """Train on the code under path and promote the model if it passes the promotion check.
 
     Unless `from_scratch`, the embeddings continue from the current model's vectors and each
     unchanged file's examples are reused while the code has changed little (see reuse.py).
     """
-    policy = policy or GatePolicy()
+    policy = policy or PromotionPolicy()
     report = report or (lambda *args: None)
     started = time.monotonic()
     repository_settings = read_settings(path)
@@ -129,6 +138,7 @@ def train_repository(path: Path, store: Path, settings: TrainSettings, policy: G
     if not selection.files:
         raise NothingToLearn(f"nothing to learn from: 0 source files under {path}")
     report("files", len(selection.files))
+    bundle.prepare_store(store)
     corpus = load_corpus(selection, TokenCache(store / "cache"),
                          progress=lambda done, total: report("lexing", done, total))
     if not corpus.files:
@@ -180,10 +190,11 @@ def train_repository(path: Path, store: Path, settings: TrainSettings, policy: G
         "skipped": corpus.skipped,
         "reuse": trained.reuse,
     }
-    directory = persistence.save(store, trained, manifest)
+    promoted, reason = promotion_check(public(trained.quality), current_manifest.get("quality", {}) if current_manifest else {}, policy)
+    manifest["promotion_check"] = reason
+    directory = persistence.save(store, trained, manifest, refused=not promoted)
     model_id = directory.name
     written = json.loads((directory / bundle.MANIFEST).read_text(encoding="utf-8"))
-    promoted, reason = gate(trained.quality, current_manifest.get("quality", {}) if current_manifest else {}, policy)
     if promoted:
         bundle.promote(store, model_id)
     pruned = bundle.prune(store, keep)

@@ -246,7 +246,7 @@ _EMBEDDING_WEIGHTS = (EMBEDDING_WINDOW + 1 - np.abs(_EMBEDDING_OFFSETS)) / EMBED
 
 
 def rank_many(tables: NameTables, source: SourceFile, variables: list[Variable], ids: np.ndarray,
-              weights: Weights | None = None, holdout=None) -> list[Ranking | None]:
+              weights: Weights | None = None, holdout=None, view: FlowView | None = None) -> list[Ranking | None]:
     """rank_candidates for many variables of one file at once (the same numbers, far faster).
 
     With a `holdout` (counts.Holdout) the file's own share of the counts is taken out first,
@@ -292,8 +292,7 @@ def rank_many(tables: NameTables, source: SourceFile, variables: list[Variable],
     combined = count_scores * np.float32(weights.counts)
     combined += embedding_scores * np.float32(weights.embedding)
     combined += lexical_scores * np.float32(weights.lexical)
-    current = file_flow(source.variables)
-    view = FlowView(tables.flow, holdout.flow if holdout is not None else None, current)
+    view = view or file_view(tables, source, holdout)
     style = tables.styles.get(source.language, get_language(source.language).naming_style)
     reserved = reserved_words(source.language)
     flows = [variable_flow(v, view, style, _name_filter(v, reserved), 1.0) if v.cues else None for v in variables]
@@ -321,9 +320,17 @@ def rank_in_batches(tables: NameTables, source: SourceFile, variables: list[Vari
     """rank_many over a whole file, a batch at a time: a file's variables times a language's
     candidates is too large a matrix to hold at once."""
     rankings: list[Ranking | None] = []
+    view = file_view(tables, source, holdout)
     for start in range(0, len(variables), batch):
-        rankings.extend(rank_many(tables, source, variables[start:start + batch], ids, weights, holdout))
+        rankings.extend(rank_many(tables, source, variables[start:start + batch], ids, weights, holdout, view))
     return rankings
+
+
+def file_view(tables: NameTables, source: SourceFile, holdout=None) -> FlowView:
+    """The flow index as the file sees it: less what the model learned from it, plus the file as it is."""
+    if holdout is not None and holdout.flow is not None and holdout.flow_is_current:
+        return FlowView(tables.flow)  # the file as the model learned it is the file as it is
+    return FlowView(tables.flow, holdout.flow if holdout is not None else None, file_flow(source.variables))
 
 
 def occurrence_table(variables: list[Variable]) -> tuple[np.ndarray, np.ndarray, np.ndarray]:

@@ -62,9 +62,15 @@ class Report:
             "sampled_from": self.sampled_from,
             "kinds": self.kinds,
             "coverage": self.coverage,
-            "heaps": {name: {"k": fit.k, "beta": fit.beta, "r2": fit.r2} for name, fit in self.heaps.items()},
+            "heaps": {name: {"k": _measured(fit.k), "beta": _measured(fit.beta), "r2": _measured(fit.r2)}
+                      for name, fit in self.heaps.items()},
             "growth": self.growth,
         }
+
+
+def _measured(value: float) -> float | None:
+    """None for a figure too few files could measure (JSON has no NaN)."""
+    return None if value != value else value
 
 
 def file_streams(root: Path, paths: list[str]):
@@ -150,7 +156,7 @@ def coverage_table(counts: Counter, train: Counter, held: Counter, sizes: list[i
             "n": n,
             "unique_share": round(min(n, len(ranked)) / len(ranked), 4) if len(ranked) else 0.0,
             "occurrence_share": round(covered / total, 4) if total else 0.0,
-            "heldout_oov_rate": round(held_unknown / held_total, 4) if held_total else 0.0,
+            "heldout_oov_rate": round(held_unknown / held_total, 4) if held_total else None,  # no file held out
         })
     return rows
 
@@ -169,7 +175,7 @@ def markdown(report: Report, plots: list[str]) -> str:
     if report.sampled_from:
         lines += [f"Sampled {report.files:,} of {report.sampled_from:,} files (fixed seed).", ""]
     else:
-        lines += [f"{report.files:,} files.", ""]
+        lines += [f"{report.files:,} file{'' if report.files == 1 else 's'}.", ""]
     lines += ["## Tokens by kind", "", "| kind | total | unique |", "|---|---:|---:|"]
     for kind, figures in report.kinds.items():
         lines.append(f"| {kind} | {figures['total']:,} | {figures['unique']:,} |")
@@ -177,11 +183,16 @@ def markdown(report: Report, plots: list[str]) -> str:
               "| N | unique identifiers covered | occurrences covered | held-out out-of-vocabulary rate |",
               "|---:|---:|---:|---:|"]
     for row in report.coverage:
-        lines.append(f"| {row['n']:,} | {row['unique_share']:.1%} | {row['occurrence_share']:.1%} | "
-                     f"{row['heldout_oov_rate']:.1%} |")
-    lines += ["", "## Growth and Heaps' law (V = K·n^β)", "", "| tokens | K | β | r² |", "|---|---:|---:|---:|"]
-    for variant, fit in report.heaps.items():
-        lines.append(f"| {VARIANT_LABELS[variant]} | {fit.k:.2f} | {fit.beta:.3f} | {fit.r2:.4f} |")
+        held_out = "too few files to measure" if row["heldout_oov_rate"] is None else f"{row['heldout_oov_rate']:.1%}"
+        lines.append(f"| {row['n']:,} | {row['unique_share']:.1%} | {row['occurrence_share']:.1%} | {held_out} |")
+    lines += ["", "## Growth and Heaps' law (V = K·n^β)", ""]
+    measured = {variant: fit for variant, fit in report.heaps.items() if fit.beta == fit.beta}
+    if measured:
+        lines += ["| tokens | K | β | r² |", "|---|---:|---:|---:|"]
+        lines += [f"| {VARIANT_LABELS[variant]} | {fit.k:.2f} | {fit.beta:.3f} | {fit.r2:.4f} |"
+                  for variant, fit in measured.items()]
+    else:
+        lines.append("Too few files to measure growth.")
     for plot in plots:
         lines += ["", f"![{plot}]({plot})"]
     return "\n".join(lines) + "\n"

@@ -6,6 +6,8 @@ import asyncio
 import functools
 import gc
 import logging
+import math
+import re
 import time
 from concurrent.futures import ThreadPoolExecutor
 from dataclasses import dataclass
@@ -21,14 +23,16 @@ from cognomen import __version__
 from cognomen.model import bundle
 from cognomen.model.bundle import ModelError
 from cognomen.model.chunks import PieceCache
-from cognomen.model.corpus import SourceFile
+from cognomen.model.corpus import SourceFile, read_settings
 from cognomen.model.findings import (Finding, JudgementCache, analyse_text, check_source, complete_binding,
                                      suggest_at)
 from cognomen.model.persistence import load_scorer
+from cognomen.model.suppression import keep_comment
 from cognomen.model.scoring import Scorer
 from cognomen.model.languages import get_language, language_for_path
 
-from .review import level_of
+from . import first_model
+from .review import calibrated_threshold, level_of
 from .settings import LEVELS, ServerSettings, parse_settings
 
 log = logging.getLogger("cognomen.server")
@@ -81,6 +85,9 @@ class NameServer(LanguageServer):
         self.watcher: asyncio.Task | None = None
         self.model_ready = asyncio.Event()  # set once the first attempt to load a model has ended
         self.refused_model_id: str | None = None  # a model that failed verification, not retried
+        self._accepted: dict[str, list[str]] | None = None  # the workspace's accepted names
+        self.training: asyncio.subprocess.Process | None = None  # `cognomen train` run for a first model
+        self.offer: asyncio.Task | None = None
 
     # --- model ----------------------------------------------------------------------------
 
@@ -105,14 +112,15 @@ class NameServer(LanguageServer):
             self.scorer, self.model_id = None, None
             if not self.told_no_model:
                 self.told_no_model = True
-                where = store or "the workspace"
-                self.window_show_message(types.ShowMessageParams(
-                    type=types.MessageType.Info,
-                    message=f"cognomen: no model found in {where}; run `cognomen train` in the repository to "
-                            f"get name hints"))
+                root = self.workspace.root_path if self.workspace else None
+                if store is not None and root and self.training is None and first_model.can_offer(self):
+                    self.offer = asyncio.ensure_future(first_model.offer_training(self, store, Path(root)))
+                else:
+                    self.window_show_message(types.ShowMessageParams(
+                        type=types.MessageType.Info, message=first_model.no_model_text(store or "the workspace")))
             return
         token = f"cognomen-load-{time.monotonic_ns()}"
-        progress = announce and self._supports_progress()
+        progress = announce and self.supports_progress()
         if progress:
             try:
                 await self.work_done_progress.create_async(token)
@@ -143,7 +151,7 @@ class NameServer(LanguageServer):
         for uri in list(self.analyses):
             self.schedule(uri, delay=0.0)
 
-    def _supports_progress(self) -> bool:
+    def supports_progress(self) -> bool:
         capabilities = self.client_capabilities
         window = capabilities.window if capabilities else None
         return bool(window and window.work_done_progress)
@@ -212,10 +220,24 @@ class NameServer(LanguageServer):
         if source is None:
             return None
         cache = self.judgement_caches.setdefault(uri, JudgementCache())
-        findings = check_source(self.scorer, source, self.settings.threshold, cache=cache) if self.scorer else []
+        scorer = self.scorer  # the same model throughout, even if a new one is swapped in meanwhile
+        findings = check_source(scorer, source, self.settings.threshold, cache=cache,
+                                accepted=self.accepted_names()) if scorer else []
         minimum = LEVELS.index(self.settings.minimum_level)
-        findings = [f for f in findings if LEVELS.index(level_of(f)) >= minimum]
+        findings = [f for f in findings if LEVELS.index(level_of(f, calibrated_threshold(scorer, f))) >= minimum]
         return Analysis(version, source, findings)
+
+    def accepted_names(self) -> dict[str, list[str]]:
+        """The workspace's `[accepted-names]`, read once (a malformed settings file is logged, not fatal)."""
+        if self._accepted is None:
+            root = self.workspace.root_path if self.workspace else None
+            self._accepted = {}
+            if root:
+                try:
+                    self._accepted = read_settings(Path(root)).accepted_names
+                except ValueError as error:
+                    log.warning("%s", error)
+        return self._accepted
 
     def pieces(self, uri: str) -> PieceCache:
         return self.piece_caches.setdefault(uri, PieceCache())
@@ -268,17 +290,35 @@ class NameServer(LanguageServer):
         return fresh.source if fresh else None
 
     def server_position(self, uri: str, position: types.Position) -> tuple[int, int]:
-        """A client position as a 1-based line and 1-based character column; invalid params if outside."""
+        """A client position as a 1-based line and 1-based character column; invalid params if outside.
+
+        A character past the end of its line means the end of the line, as the LSP specification
+        says of every position.
+        """
         document = self.workspace.get_text_document(uri)
         lines = document.lines
         if position.line < 0 or position.character < 0 or position.line > len(lines) or (
                 position.line == len(lines) and position.character > 0):
             raise JsonRpcInvalidParams(f"position {position.line}:{position.character} is outside the document")
-        if position.line < len(lines) and position.character > document.position_codec.client_num_units(
-                lines[position.line].rstrip("\r\n")):
-            raise JsonRpcInvalidParams(f"position {position.line}:{position.character} is past the end of its line")
+        length = self.line_length(uri, position.line)
+        if position.character > length:
+            position = types.Position(line=position.line, character=length)
         converted = document.position_from_client_units(position)
         return converted.line + 1, converted.character + 1
+
+    def line_length(self, uri: str, line: int) -> int:
+        """A line's length in the client's units (0 for the empty place after a final newline)."""
+        document = self.workspace.get_text_document(uri)
+        if line >= len(document.lines):
+            return 0
+        return document.position_codec.client_num_units(document.lines[line].rstrip("\r\n"))
+
+    def accepts_markdown(self) -> bool:
+        """Whether the client renders Markdown in hovers (it says so in textDocument.hover.contentFormat)."""
+        capabilities = self.client_capabilities
+        hover = capabilities.text_document.hover if capabilities and capabilities.text_document else None
+        formats = hover.content_format if hover else None
+        return formats is None or types.MarkupKind.Markdown in formats
 
 
 def path_of(uri: str) -> str:
@@ -384,6 +424,7 @@ def build_server(model_dir: str | None = None) -> NameServer:
             ls.watcher.cancel()
         for task in ls.pending.values():
             task.cancel()
+        first_model.stop_training(ls)
         ls.analysis_pool.shutdown(wait=False, cancel_futures=True)
 
     return server
@@ -425,6 +466,8 @@ def rename_actions(ls: NameServer, params: types.CodeActionParams) -> list[types
     diagnostics = [d for d in params.context.diagnostics if d.code == DIAGNOSTIC_CODE
                    and d.range.start.line == finding.line - 1] if finding.flagged else None
     actions = []
+    if finding.flagged:
+        actions.append(keep_action(ls, uri, source, finding, diagnostics))
     for index, suggestion in enumerate(finding.suggestions[:3]):
         edits = [types.TextEdit(range=client_range(document, line, column, length), new_text=text)
                  for line, column, length, text in finding.rename_edits(suggestion.name)]
@@ -437,32 +480,73 @@ def rename_actions(ls: NameServer, params: types.CodeActionParams) -> list[types
     return actions
 
 
+def keep_action(ls: NameServer, uri: str, source: SourceFile, finding: Finding, diagnostics) -> types.CodeAction:
+    """Saying no in one keystroke: a keep-name comment on the binding's line, which check, review and
+    the editor honour and the next training learns from."""
+    document = ls.workspace.get_text_document(uri)
+    line = finding.line - 1
+    end = document.position_codec.client_num_units(document.lines[line].rstrip("\r\n"))
+    comment = keep_comment(get_language(source.language).comment_prefix)
+    edit = types.TextEdit(range=types.Range(start=types.Position(line=line, character=end),
+                                            end=types.Position(line=line, character=end)), new_text=comment)
+    return types.CodeAction(title=f"Keep the name `{finding.name}` (add a keep-name comment)",
+                            kind=types.CodeActionKind.QuickFix, diagnostics=diagnostics or None,
+                            edit=types.WorkspaceEdit(changes={uri: [edit]}))
+
+
 def hover_for(ls: NameServer, uri: str, position: types.Position) -> types.Hover | None:
+    ls.server_position(uri, position)  # invalid params outside the document
+    if position.character > ls.line_length(uri, position.line):
+        return None  # past the end of its line: nothing is under the pointer
     found = _finding_at(ls, uri, position)
     if found is None:
         return None
     _, finding = found
-    if finding.score is None:
-        verdict = f"cognomen cannot judge `{finding.name}` here (too little code in this language, or no model " \
-                  f"names for it)"
+    markdown = ls.accepts_markdown()
+    document = ls.workspace.get_text_document(uri)
+    line, column = _occurrence_at(finding, *ls.server_position(uri, position))
+    kind = types.MarkupKind.Markdown if markdown else types.MarkupKind.PlainText
+    return types.Hover(contents=types.MarkupContent(kind=kind, value=hover_text(finding, markdown, ls.uri_for)),
+                       range=client_range(document, line, column, len(finding.name)))
+
+
+def hover_text(finding: Finding, markdown: bool, uri_for) -> str:
+    """The verdict on a name and the team's names for contexts like it, in Markdown or readable plain text."""
+    def code(name: str) -> str:
+        return f"`{name}`" if markdown else name
+
+    def place(path: str, line: int) -> str:
+        return f"[{path}:{line}]({uri_for(path)}#L{line})" if markdown else f"{path}:{line}"
+
+    name = code(finding.name)
+    if finding.dictated:
+        verdict = f"{name} is not judged: {_with_code(finding.dictated, code)}"
+    elif finding.score is None:
+        verdict = f"cognomen cannot judge {name} here (no model names for it)"
+    elif not math.isfinite(finding.threshold):
+        verdict = f"{name}: cognomen gives suggestions only for {finding.language} here (too little of it in the " \
+                  f"repository to set a threshold that holds; oddness {finding.score:.2f})"
     elif finding.flagged:
-        verdict = f"`{finding.name}` does not fit how it is used here " \
+        verdict = f"{name} does not fit how it is used here " \
                   f"(oddness {finding.score:.2f}, flagged above {finding.threshold:.2f})"
     elif finding.score > finding.threshold - 1.0:
-        verdict = f"`{finding.name}` fits, but only just (oddness {finding.score:.2f}, threshold {finding.threshold:.2f})"
+        verdict = f"{name} fits, but only just (oddness {finding.score:.2f}, threshold {finding.threshold:.2f})"
     else:
-        verdict = f"`{finding.name}` fits how it is used here (oddness {finding.score:.2f}, threshold " \
-                  f"{finding.threshold:.2f})"
+        verdict = f"{name} fits how it is used here (oddness {finding.score:.2f}, threshold {finding.threshold:.2f})"
     lines = [verdict, ""]
     if finding.suggestions:
         lines.append("Names the team uses in contexts like this:")
         for suggestion in finding.suggestions[:5]:
-            places = ", ".join(f"[{path}:{line}]({ls.uri_for(path)}#L{line})" for path, line in suggestion.evidence)
-            lines.append(f"- `{suggestion.name}` ({suggestion.score:.0%})" + (f": {places}" if places else ""))
-    document = ls.workspace.get_text_document(uri)
-    line, column = _occurrence_at(finding, *ls.server_position(uri, position))
-    return types.Hover(contents=types.MarkupContent(kind=types.MarkupKind.Markdown, value="\n".join(lines)),
-                       range=client_range(document, line, column, len(finding.name)))
+            places = ", ".join(place(path, line) for path, line in suggestion.evidence)
+            why = _with_code(suggestion.reason, code)
+            lines.append(f"- {code(suggestion.name)} ({suggestion.score:.0%})" + (f": {why}" if why else "")
+                         + (f" ({places})" if places and why else f": {places}" if places else ""))
+    return "\n".join(lines)
+
+
+def _with_code(text: str, code) -> str:
+    """Model text marks names with backticks: keep them for Markdown, drop them for plain text."""
+    return re.sub(r"`([^`]*)`", lambda m: code(m.group(1)), text)
 
 
 def _occurrence_at(finding: Finding, line: int, column: int) -> tuple[int, int]:

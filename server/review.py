@@ -2,21 +2,20 @@
 
 from __future__ import annotations
 
-import fnmatch
 import json
+import math
 import re
 import subprocess
 from dataclasses import dataclass, field
 from pathlib import Path
 
 from cognomen.model.corpus import SkipFile, decode_source, read_settings
-from cognomen.model.findings import Finding, analyse_text, check_source
-from cognomen.model.scoring import Scorer
+from cognomen.model.findings import CLEAREST_MARGIN, Finding, analyse_text, check_source
 from cognomen.model.languages import language_for_path
+from cognomen.model.scoring import Scorer
 
 LEVELS = ("warning", "error")
-STRONG_MARGIN = 2.0  # oddness this far above the threshold makes an error rather than a warning
-KEEP_MARKER = re.compile(r"(#|//|/\*|--)\s*cognomen:\s*keep-name\b")
+STRONG_MARGIN = CLEAREST_MARGIN  # oddness this far above the calibrated threshold makes an error rather than a warning
 
 
 class ReviewError(Exception):
@@ -39,13 +38,29 @@ class ReviewResult:
     suppressed: int = 0
     files: int = 0
     skipped: dict[str, int] = field(default_factory=dict)
+    scorer: Scorer | None = None  # the model whose own thresholds decide each finding's level
+
+    def level(self, finding: Finding) -> str:
+        return level_of(finding, calibrated_threshold(self.scorer, finding))
 
     def skip(self, reason: str) -> None:
         self.skipped[reason] = self.skipped.get(reason, 0) + 1
 
 
-def level_of(finding: Finding) -> str:
-    return "error" if finding.score is not None and finding.score >= finding.threshold + STRONG_MARGIN else "warning"
+def calibrated_threshold(scorer: Scorer | None, finding: Finding) -> float:
+    """The model's own threshold for a finding, before any override: what decides its level."""
+    return scorer.threshold_for(finding.language) if scorer is not None else math.inf
+
+
+def level_of(finding: Finding, calibrated: float) -> str:
+    """Error when the oddness is STRONG_MARGIN above the model's calibrated threshold, else warning.
+
+    A threshold given on the command line or in the editor changes which names are reported,
+    never how severe a name is.
+    """
+    if finding.score is not None and finding.score >= calibrated + STRONG_MARGIN:
+        return "error"
+    return "warning"
 
 
 def git(root: Path, *args: str) -> str:
@@ -138,36 +153,21 @@ def accepted_names(root: Path) -> dict[str, list[str]]:
         raise ReviewError(str(error)) from None
 
 
-def is_accepted(path: str, name: str, accepted: dict[str, list[str]]) -> bool:
-    return any(fnmatch.fnmatch(path, glob) and name in names for glob, names in accepted.items())
-
-
-def has_keep_marker(lines: list[str], finding: Finding) -> bool:
-    """An inline `cognomen: keep-name` comment on the binding's line or on any use's line."""
-    for line_number, _ in finding.occurrences:
-        if 0 < line_number <= len(lines) and KEEP_MARKER.search(lines[line_number - 1]):
-            return True
-    return False
-
-
 def review(scorer: Scorer, root: Path, base: str, head: str | None = None,
            threshold: float | None = None) -> ReviewResult:
     """Findings whose binding or a use sits on a line the change added or changed."""
-    result = ReviewResult()
+    result = ReviewResult(scorer=scorer)
     accepted = accepted_names(root)
     for changed in changed_files(root, base, head, result):
         source = analyse_text(changed.text, changed.path)
         if source is None:
             continue
         result.files += 1
-        lines = changed.text.splitlines()
-        for finding in check_source(scorer, source, threshold):
-            if not any(changed.touches(line) for line, _ in finding.occurrences):
-                continue
-            if has_keep_marker(lines, finding) or is_accepted(changed.path, finding.name, accepted):
-                result.suppressed += 1
-                continue
-            result.findings.append(finding)
+        kept: list[Finding] = []
+        for finding in check_source(scorer, source, threshold, accepted=accepted, kept=kept):
+            if any(changed.touches(line) for line, _ in finding.occurrences):
+                result.findings.append(finding)
+        result.suppressed += sum(1 for finding in kept if any(changed.touches(line) for line, _ in finding.occurrences))
     return result
 
 
@@ -175,9 +175,9 @@ def fails(result: ReviewResult, fail_on: str) -> bool:
     if fail_on == "never":
         return False
     minimum = LEVELS.index(fail_on)
-    return any(LEVELS.index(level_of(f)) >= minimum for f in result.findings)
+    return any(LEVELS.index(result.level(f)) >= minimum for f in result.findings)
 
 
 def to_json(result: ReviewResult) -> str:
-    return json.dumps({"findings": [dict(f.to_json(), level=level_of(f)) for f in result.findings],
+    return json.dumps({"findings": [dict(f.to_json(), level=result.level(f)) for f in result.findings],
                        "suppressed": result.suppressed, "files": result.files}, indent=2)

@@ -29,8 +29,8 @@ class ServerSettings:
     """Documents larger than this many characters get no hints."""
     debounce_ms: int = 50
     """Quiet time after an edit before the document is checked again."""
-    allow_public_parameter_renames: bool = False
-    """Offer renames for parameters of public functions (callers passing them by keyword break)."""
+    allow_public_parameter_renames: bool = True
+    """Offer renames for parameters of public functions, with a caution where callers may pass them by name."""
     reload_seconds: float = 2.0
     """How often to look for a newly promoted model."""
 
@@ -45,8 +45,8 @@ def parse_settings(raw, previous: ServerSettings | None = None) -> tuple[ServerS
     if previous is not None:
         settings = ServerSettings(**{f.name: getattr(previous, f.name) for f in fields(ServerSettings)})
     problems: list[str] = []
-    if raw is None:
-        return settings, problems
+    if raw is None or raw == []:
+        return settings, problems  # no settings (some clients encode an empty object as an empty list)
     if not isinstance(raw, dict):
         return settings, [f"cognomen settings must be an object, not {type(raw).__name__}"]
     if isinstance(raw.get("cognomen"), dict):

@@ -79,6 +79,14 @@ def demo_copy(tmp_path_factory):
     return target
 
 
+@pytest.fixture()
+def workspace(demo_copy, tmp_path):
+    """A private copy of the trained demo repository per test, free to change."""
+    target = tmp_path / "fernhill"
+    shutil.copytree(demo_copy, target, symlinks=True)
+    return target
+
+
 def git(cwd: Path, *args: str) -> str:
     result = subprocess.run(["git", "-c", "user.name=Test", "-c", "user.email=test@example.invalid", *args],
                             cwd=cwd, capture_output=True, text=True, check=True)

@@ -19,25 +19,39 @@ def _published(client: LanguageClient, params: types.PublishDiagnosticsParams):
     client.publish_counts[params.uri] = client.publish_counts.get(params.uri, 0) + 1
 
 
+def _message_request(client: LanguageClient, params: types.ShowMessageRequestParams):
+    """Answer as a person would: pick the action titled `client.answer`, or dismiss the message."""
+    client.message_requests.append(params)
+    return next((action for action in params.actions or [] if action.title == client.answer), None)
+
+
 def make_client() -> LanguageClient:
-    """pytest-lsp's test client, also remembering which document version each diagnostics were for."""
+    """pytest-lsp's test client, also remembering which document version each diagnostics were for,
+    and answering window/showMessageRequest."""
     client = LanguageClient(converter_factory=default_converter)
     client.diagnostic_versions = {}
     client.publish_counts = {}
-    register_lsp_features(client, dict(DEFAULT_CLIENT_FEATURES, **{types.TEXT_DOCUMENT_PUBLISH_DIAGNOSTICS: _published}))
+    client.message_requests = []
+    client.answer = None
+    register_lsp_features(client, dict(DEFAULT_CLIENT_FEATURES, **{
+        types.TEXT_DOCUMENT_PUBLISH_DIAGNOSTICS: _published, types.WINDOW_SHOW_MESSAGE_REQUEST: _message_request}))
     return client
 
 
 @contextlib.asynccontextmanager
-async def lsp_client(root: Path, options: dict | None = None, model_dir: Path | None = None,
-                     editor: str = "neovim@v0.10.0"):
+async def lsp_client(root: Path, options: dict | list | None = None, model_dir: Path | None = None,
+                     editor: str = "neovim@v0.10.0", capabilities: types.ClientCapabilities | None = None,
+                     answer: str | None = None):
+    """A session with `cognomen serve`; the client declares the capabilities pytest-lsp recorded from
+    `editor` (or `capabilities`, when given) and answers a message request with the action `answer`."""
     command = [sys.executable, "-m", "cognomen"]
     if model_dir is not None:
         command += ["--model-dir", str(model_dir)]
     command.append("serve")
     client = await ClientServerConfig(server_command=command, client_factory=make_client).start()
+    client.answer = answer
     await client.initialize_session(types.InitializeParams(
-        capabilities=client_capabilities(editor),
+        capabilities=capabilities or client_capabilities(editor),
         root_uri=root.as_uri(),
         workspace_folders=[types.WorkspaceFolder(uri=root.as_uri(), name=root.name)],
         initialization_options=options,

@@ -12,6 +12,7 @@ import pytest
 
 from cognomen.model import bundle
 from cognomen.model.bundle import ModelError
+from cognomen.model.measures import PUBLIC_KEYS
 from cognomen.model.corpus import TokenCache, discover, load_corpus
 from cognomen.model.persistence import load_scorer, save
 from cognomen.model.training import TrainSettings, train
@@ -123,3 +124,16 @@ def test_interrupt_is_a_clean_stop(tmp_path):
     assert "Traceback" not in err
     assert "current model is unchanged" in err
     assert bundle.current_model_id(store) is None
+
+
+def test_a_model_of_an_older_format_is_refused_with_retrain(small_store, tmp_path):
+    import shutil
+    copy = tmp_path / "store"
+    shutil.copytree(small_store, copy)
+    model = copy / "models" / bundle.current_model_id(copy)
+    manifest = json.loads((model / "manifest.json").read_text())
+    assert set(manifest["quality"]) <= set(PUBLIC_KEYS.values()), "this format names measures as measures.py does"
+    manifest["format_version"] = 3  # format 3 kept quality under working keys such as recovery_at_5
+    (model / "manifest.json").write_text(json.dumps(manifest))
+    with pytest.raises(ModelError, match="has format 3; this cognomen reads format 4: retrain"):
+        load_scorer(copy)

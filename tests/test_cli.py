@@ -1,6 +1,7 @@
 """The command line as people and other programs use it."""
 
 import json
+import re
 
 from .conftest import run_cli
 
@@ -69,13 +70,24 @@ def test_nothing_to_learn(tmp_path):
     assert "Traceback" not in result.stderr
 
 
+def test_a_malformed_settings_file_is_one_line_for_every_command_that_reads_it(tmp_path):
+    (tmp_path / "a.py").write_text("def f(value):\n    return value\n")
+    (tmp_path / "cognomen.toml").write_text("include = [\n")
+    for command in ("train", "eval", "vocab"):
+        result = run_cli(command, str(tmp_path), cwd=tmp_path)
+        assert result.returncode == 2 and "Traceback" not in result.stderr, command
+        assert "cognomen.toml: not valid TOML" in result.stderr, command
+
+
 def test_bad_input_never_tracebacks(demo_copy, tmp_path):
     cases = [
         ("check", "no/such/file.py"),
         ("suggest", "fernhill/alerts.py:x:1"),
         ("suggest", "fernhill/alerts.py"),
         ("train", "no/such/dir"),
+        ("models", "promote", "nope"),
         ("models", "use", "nope"),
+        ("models", "frobnicate"),
         ("frobnicate",),
     ]
     for args in cases:
@@ -92,3 +104,116 @@ def test_models_lists_the_current_model(demo_copy):
     result = run_cli("models", "--format", "json", cwd=demo_copy)
     listing = json.loads(result.stdout)
     assert listing["current"] == listing["models"][0]["model_id"]
+
+
+def test_model_dir_before_or_after_any_subcommand(demo_copy, tmp_path):
+    from cognomen.server.cli import build_parser
+
+    parser = build_parser()
+    subcommands = parser._subparsers._group_actions[0].choices
+    minimal = {"suggest": ["a.py:1:1"], "check": ["a.py"]}
+    for name in subcommands:
+        words = [name, *minimal.get(name, [])]
+        assert parser.parse_args([*words, "--model-dir", "after"]).model_dir == "after", name
+        assert parser.parse_args(["--model-dir", "before", *words]).model_dir == "before", name
+        assert parser.parse_args(words).model_dir is None, name
+    store = demo_copy / ".cognomen"
+    checked = run_cli("check", str(demo_copy / "fernhill/alerts.py"), "--model-dir", str(store), cwd=tmp_path)
+    assert checked.returncode == 0 and "`valve`" in checked.stdout, checked.stderr
+    listed = run_cli("models", "--model-dir", str(store), "--format", "json", cwd=tmp_path)
+    assert listed.returncode == 0, listed.stderr
+    assert json.loads(listed.stdout)["current"]
+    missing = run_cli("models", "--model-dir", str(tmp_path / "none"), cwd=tmp_path)
+    assert missing.returncode == 2 and "no model found" in missing.stderr
+
+
+def test_models_promote_and_its_former_name_kept_out_of_help(demo_copy):
+    current = json.loads(run_cli("models", "--format", "json", cwd=demo_copy, check=True).stdout)["current"]
+    for action in ("promote", "use"):
+        result = run_cli("models", action, current, cwd=demo_copy)
+        assert result.returncode == 0 and result.stdout.strip() == f"current model is now {current}", action
+    shown = run_cli("--help").stdout + run_cli("models", "--help").stdout + run_cli("train", "--help").stdout
+    assert "models promote ID" in shown and "promotion check" in shown
+    assert not re.search(r"\buse\b", shown) and "gate" not in shown
+
+
+OLD_SPELLINGS = re.compile(r"recovery|recall|@|kloc|\bthr\b|calibration_lines", re.IGNORECASE)
+
+
+def test_each_measure_has_one_name_in_every_output(demo_copy, tmp_path):
+    from cognomen.model.measures import NAMES, PUBLIC_KEYS
+
+    store = tmp_path / "store"
+    trained = run_cli("--model-dir", str(store), "train", "--quiet", str(demo_copy), check=True)
+    held_out = next(line for line in trained.stdout.splitlines() if line.strip().startswith("held out"))
+    assert "found in top 5" in held_out and "found first" in held_out
+    listed = run_cli("--model-dir", str(store), "models", check=True).stdout
+    assert "found in top 5" in listed and "misnames flagged" in listed
+    manifest = json.loads(run_cli("--model-dir", str(store), "models", "--format", "json", check=True).stdout)
+    quality_keys = set(manifest["models"][0]["quality"])
+    assert quality_keys and quality_keys <= set(PUBLIC_KEYS.values())
+    evaluated = run_cli("--model-dir", str(store), "eval", str(demo_copy), check=True).stdout
+    assert all(name in evaluated for name in ("found first", "found in top 5", "detection AUC", "misnames flagged"))
+    figures = json.loads(run_cli("--model-dir", str(store), "eval", "--format", "json", str(demo_copy),
+                                 check=True).stdout)
+    assert set(figures["scorers"]["model"]) <= set(PUBLIC_KEYS.values())
+    for text in (trained.stdout, listed, evaluated, json.dumps(manifest), json.dumps(figures)):
+        assert not OLD_SPELLINGS.search(text), OLD_SPELLINGS.search(text).group(0)
+    assert len(set(NAMES.values())) == len(NAMES), "no two measures share a name"
+
+
+def test_check_a_folder_skips_what_training_skips_and_counts_it(workspace):
+    (workspace / "fernhill" / "blob.py").write_bytes(b"\0\1\2binary")
+    (workspace / "fernhill" / "packed.py").write_text("DATA = [" + "1, " * 11_000 + "]\n")  # one 33 KB line
+    (workspace / "fernhill" / "widget_pb2.py").write_text("def f(value):\n    return value\n")
+    result = run_cli("check", "fernhill", cwd=workspace)
+    assert result.returncode == 0, result.stderr
+    assert "note: skipped 3 files: 1 binary, 1 generated, 1 minified or generated" in result.stdout
+    assert "fernhill/alerts.py:27:9: `valve` does not fit" in result.stdout
+    as_json = run_cli("check", "--format", "json", "fernhill", cwd=workspace)
+    report = json.loads(as_json.stdout)
+    assert report["skipped"] == {"binary": 1, "generated": 1, "minified or generated": 1}
+    assert any(f["name"] == "valve" for f in report["findings"])
+    (workspace / "stray.py").write_bytes(b"\x89PNG\r\n\x1a\n\0\0")
+    everything = run_cli("check", ".", cwd=workspace)
+    assert everything.returncode == 0 and "2 binary" in everything.stdout, everything.stderr
+    named = run_cli("check", "fernhill/blob.py", cwd=workspace)
+    assert named.returncode == 2 and "fernhill/blob.py: cannot read (binary)" in named.stderr
+
+
+def test_check_applies_the_training_size_limit_and_shows_progress(workspace):
+    from cognomen.model.corpus import MAX_FILE_BYTES
+
+    huge = workspace / "fernhill" / "huge.py"
+    body = "".join(f"def step_{i}(value):\n    total = value + {i}\n    return total\n\n" for i in range(20_000))
+    huge.write_text(body)
+    assert huge.stat().st_size > MAX_FILE_BYTES
+    folder = run_cli("check", "fernhill", cwd=workspace)
+    assert folder.returncode == 0 and "note: skipped 1 file: 1 over 1 MiB" in folder.stdout
+    named = run_cli("check", "fernhill/huge.py", cwd=workspace)
+    assert named.returncode == 0
+    assert "fernhill/huge.py: over 1 MiB; skipped (--max-file-size raises the limit)" in named.stdout
+    assert named.stdout.splitlines()[-1] == "0 oddly named variables in 0 files"
+    raised = run_cli("check", "--format", "json", "--max-file-size", "2M", "fernhill/huge.py", cwd=workspace)
+    assert raised.returncode == 0, raised.stderr
+    assert "findings" in json.loads(raised.stdout), "stdout holds only the JSON"
+    assert "checking 1/1: fernhill/huge.py (1," in raised.stderr
+    quiet = run_cli("check", "--quiet", "--max-file-size", "2M", "fernhill/huge.py", cwd=workspace)
+    assert quiet.returncode == 0 and quiet.stderr == ""
+    bad = run_cli("check", "--max-file-size", "lots", "fernhill/huge.py", cwd=workspace)
+    assert bad.returncode == 2 and "'lots' is not a size" in bad.stderr
+
+
+def test_suggest_a_position_outside_the_file_is_a_usage_error(demo_copy):
+    lines = (demo_copy / "fernhill/alerts.py").read_text().splitlines()  # Python's own idea of lines
+    past_file = run_cli("suggest", "fernhill/alerts.py:9999:1", cwd=demo_copy)
+    assert past_file.returncode == 2 and past_file.stdout == ""
+    assert past_file.stderr == (f"cognomen: fernhill/alerts.py:9999:1: line 9999 is past the end of the file "
+                                f"({len(lines)} lines)\n")
+    past_line = run_cli("suggest", "fernhill/alerts.py:27:500", cwd=demo_copy)
+    assert past_line.returncode == 2
+    assert past_line.stderr == (f"cognomen: fernhill/alerts.py:27:500: column 500 is past the end of line 27 "
+                                f"({len(lines[26])} characters)\n")
+    end_of_line = run_cli("suggest", f"fernhill/alerts.py:27:{len(lines[26]) + 1}",
+                          f"fernhill/alerts.py:{len(lines)}:1", cwd=demo_copy)
+    assert end_of_line.returncode == 0, end_of_line.stderr

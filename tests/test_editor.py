@@ -1,21 +1,33 @@
-"""A real editor: Neovim (Debian's 0.7.2) headless, with cognomen as its language server."""
+"""Real editors headless, with cognomen as their language server: Neovim (Debian's 0.7.2) and
+Emacs with eglot (Debian's emacs-nox 28 and elpa-eglot 1.9)."""
 
 import os
+import re
 import shutil
 import subprocess
 import sys
+from pathlib import Path
 
 import pytest
 
-from .conftest import FIXTURES
+from .conftest import FIXTURES, ROOT
 
 NVIM = shutil.which("nvim")
+EMACS = shutil.which("emacs")
+DEBIAN_EGLOT = list(Path("/usr/share/emacs/site-lisp/elpa").glob("eglot-*"))
+
+
+def assert_renamed_in_the_buffer_only(buffer: str, workspace: Path) -> None:
+    """`valve` became `zone` at its binding and its use in the editor's buffer; the file on disk is as it was."""
+    assert "        zone = registry.get(zone_id)" in buffer
+    assert "deficit = zone.target_moisture - moisture" in buffer
+    assert "valve" not in buffer.split("def dry_zone_alerts")[1].split("def stale_sensor_alerts")[0]
+    assert (workspace / "fernhill/alerts.py").read_text().count("valve = registry.get") == 1, \
+        "the file on disk is untouched until the person saves"
 
 
 @pytest.mark.skipif(NVIM is None, reason="Neovim is not installed (apt-get install -y neovim)")
-def test_neovim_shows_the_hint_and_applies_the_quick_fix(demo_copy, tmp_path):
-    workspace = tmp_path / "fernhill"
-    shutil.copytree(demo_copy, workspace, symlinks=True)
+def test_neovim_shows_the_hint_and_applies_the_quick_fix(workspace, tmp_path):
     out = tmp_path / "buffer.txt"
     environment = dict(os.environ, COGNOMEN_ROOT=str(workspace), COGNOMEN_FILE=str(workspace / "fernhill/alerts.py"),
                        COGNOMEN_OUT=str(out), COGNOMEN_PYTHON=sys.executable)
@@ -26,9 +38,47 @@ def test_neovim_shows_the_hint_and_applies_the_quick_fix(demo_copy, tmp_path):
     assert result.returncode == 0, (lines[:2], result.stderr[-2000:])
     assert lines[0].startswith("DIAGNOSTIC `valve` does not fit how it is used here")
     assert lines[1] == "ACTION Rename `valve` to `zone`"
-    buffer = "\n".join(lines[2:])
-    assert "        zone = registry.get(zone_id)" in buffer
-    assert "deficit = zone.target_moisture - moisture" in buffer
-    assert "valve" not in buffer.split("def dry_zone_alerts")[1].split("def stale_sensor_alerts")[0]
-    assert (workspace / "fernhill/alerts.py").read_text().count("valve = registry.get") == 1, \
-        "the file on disk is untouched until the person saves"
+    assert_renamed_in_the_buffer_only("\n".join(lines[2:]), workspace)
+
+
+def readme_eglot_setup() -> str:
+    """The README's Emacs snippet, word for word: the test runs what a person would paste."""
+    block = re.search(r"```elisp\n(.*?)```", (ROOT / "README.md").read_text(), re.DOTALL)
+    assert block, "the README has an Emacs snippet"
+    return block.group(1)
+
+
+@pytest.mark.skipif(EMACS is None or not DEBIAN_EGLOT,
+                    reason="Emacs with eglot is not installed (apt-get install -y emacs-nox elpa-eglot)")
+def test_emacs_eglot_shows_the_hint_and_applies_the_quick_fix(workspace, tmp_path):
+    setup = tmp_path / "init.el"
+    setup.write_text(readme_eglot_setup())
+    out = tmp_path / "buffer.txt"
+    # The README says cognomen must be on Emacs's PATH: put this installation's scripts there.
+    path = os.pathsep.join([str(Path(sys.executable).parent), os.environ.get("PATH", "")])
+    environment = dict(os.environ, PATH=path, HOME=str(tmp_path), COGNOMEN_SETUP=str(setup),
+                       COGNOMEN_FILE=str(workspace / "fernhill/alerts.py"), COGNOMEN_OUT=str(out))
+    result = subprocess.run([EMACS, "--batch", "-Q", "-l", str(FIXTURES / "emacs" / "driver.el")],
+                            env=environment, cwd=workspace, capture_output=True, text=True, timeout=180,
+                            input="\n")  # RET at the code-action menu takes the default (preferred) fix
+    lines = out.read_text().splitlines() if out.exists() else []
+    assert result.returncode == 0, (lines[:3], result.stderr[-3000:])
+    assert lines[0].startswith("DIAGNOSTIC cognomen [name-does-not-fit]: `valve` does not fit how it is used here")
+    # eglot 1.9 without markdown-mode declares plain text only: the hover reads plainly.
+    assert lines[1].startswith("HOVER plaintext valve does not fit how it is used here (oddness ")
+    assert "`" not in lines[1]
+    assert lines[2] == "ACTION Rename `valve` to `zone`"
+    assert_renamed_in_the_buffer_only("\n".join(lines[3:]), workspace)
+
+
+def test_the_readme_emacs_setup_covers_what_the_neovim_one_does():
+    readme = (ROOT / "README.md").read_text()
+    filetypes = re.findall(r'"(\w+)"', re.search(r"pattern = \{([^}]*)\}", readme).group(1))
+    modes = set(re.findall(r"[\w+-]+-mode", readme_eglot_setup()))
+    emacs_mode = {"python": "python", "javascript": "js", "typescript": "typescript", "go": "go", "java": "java",
+                  "rust": "rust", "c": "c", "cpp": "c++", "cs": "csharp"}
+    for filetype in filetypes:
+        assert f"{emacs_mode[filetype]}-mode" in modes, filetype
+        assert f"{emacs_mode[filetype]}-ts-mode" in modes, filetype  # Emacs 29's tree-sitter modes
+    assert "tsx-ts-mode" in modes
+    assert "must be on the `PATH` Emacs starts with" in readme

@@ -118,3 +118,20 @@ def test_bad_input(repo, tmp_path):
     missing = run_cli("--model-dir", str(tmp_path / "none"), "review", cwd=repo)
     assert missing.returncode == 2 and "no model found" in missing.stderr
     assert sorted(p.name for p in (store / "models").iterdir()) == before
+
+
+def test_the_level_comes_from_the_calibrated_threshold_not_the_override(repo):
+    add_odd_function(repo)
+    calibrated = json.loads(run_cli("models", "--format", "json", cwd=repo, check=True).stdout)["models"][0]["threshold"]
+    [finding] = json.loads(run_cli("review", "--format", "json", cwd=repo).stdout)["findings"]
+    score = finding["score"]
+    expected = "error" if score >= calibrated + 2.0 else "warning"  # the rule the README states
+    assert finding["level"] == expected
+    # An override on the other side of the old rule's line (override + 2) must not change the level.
+    override = score - 1.0 if expected == "error" else score - 2.5
+    lowered = json.loads(run_cli("review", "--format", "json", "--threshold", str(override), cwd=repo).stdout)
+    again = next(f for f in lowered["findings"] if f["name"] == finding["name"])
+    assert again["threshold"] == pytest.approx(override, abs=1e-4) and again["level"] == expected
+    sarif = json.loads(run_cli("review", "--format", "sarif", "--threshold", str(override), cwd=repo).stdout)
+    levels = {r["message"]["text"].split("`")[1]: r["level"] for r in sarif["runs"][0]["results"]}
+    assert levels[finding["name"]] == expected

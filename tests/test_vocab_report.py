@@ -82,3 +82,18 @@ def test_sampling_is_announced(tmp_path):
         (tmp_path / f"m{index}.py").write_text(f"def f(value_{index}):\n    return value_{index}\n")
     result = run_cli("vocab", str(tmp_path), "--max-files", "5")
     assert result.returncode == 0 and "note: sampled 5 of 12 files" in result.stdout
+
+
+def test_a_tiny_repository_reads_plainly(tmp_path):
+    (tmp_path / "a.py").write_text("def f(value):\n    total = value + 1\n    return total\n")
+    text = run_cli("vocab", str(tmp_path), check=True).stdout
+    assert "\n1 file.\n" in text and "1 files" not in text
+    assert "nan" not in text.lower()
+    assert "Too few files to measure growth." in text and "too few files to measure |" in text
+    # Strict JSON (the standard library's parser, told to refuse NaN): unmeasured figures are null.
+    def refuse(constant):
+        raise ValueError(f"{constant} is not JSON")
+    report = json.loads(run_cli("vocab", "--format", "json", str(tmp_path), check=True).stdout,
+                        parse_constant=refuse)
+    assert report["heaps"]["identifiers"]["beta"] is None
+    assert all(row["heldout_oov_rate"] is None for row in report["coverage"])

@@ -23,6 +23,7 @@ from common import STDLIB, save  # noqa: E402
 
 from cognomen.model.corpus import Settings, TokenCache, discover, load_corpus  # noqa: E402
 from cognomen.model.evaluation import evaluate_corpus, format_table  # noqa: E402
+from cognomen.model.measures import label  # noqa: E402
 from cognomen.model.pipeline import STDLIB_EXCLUDES, load_background  # noqa: E402
 from cognomen.model.training import TrainSettings  # noqa: E402
 
@@ -101,8 +102,8 @@ def main() -> int:
     cache = TokenCache(CACHE / "tokens")
     results = {}
     stdlib_background = None
-    for label, root, settings in corpora():
-        if args.only and args.only.lower() not in label.lower():
+    for corpus_label, root, settings in corpora():
+        if args.only and args.only.lower() not in corpus_label.lower():
             continue
         corpus = load_corpus(discover(root, settings), cache)
         variants = dict(ABLATIONS) if args.ablate else {"full model": {}}
@@ -112,7 +113,7 @@ def main() -> int:
         is_small_python = corpus.lines < 30_000 and all(f.language == "python" for f in corpus.files)
         if args.ablate and is_small_python:
             variants["with the standard library as background"] = {"background": True}
-        results[label] = {}
+        results[corpus_label] = {}
         for variant, change in variants.items():
             background = None
             if change.get("background"):
@@ -122,12 +123,12 @@ def main() -> int:
                                                                        if k != "background"})
             result = evaluate_corpus(corpus, train_settings, background=background)
             result["lines"] = corpus.lines
-            results[label][variant] = result
-            print(f"\n## {label}: {variant} ({len(corpus.files)} files, {corpus.lines:,} lines)")
+            results[corpus_label][variant] = result
+            print(f"\n## {corpus_label}: {variant} ({len(corpus.files)} files, {corpus.lines:,} lines)")
             print(format_table(result))
             model, counts = result["scorers"]["model"], result["scorers"]["context counts"]
             if counts["recovery_at_5"]:
-                print(f"recovery@5 against the count-based baseline: "
+                print(f"{label('recovery_at_5')} against the count-based baseline: "
                       f"{model['recovery_at_5'] / counts['recovery_at_5']:.2f}x")
             sys.stdout.flush()
     save("quality", results)

@@ -10,6 +10,11 @@ sys.path.insert(0, str(Path(__file__).resolve().parent))
 
 from common import RESULTS  # noqa: E402
 
+from cognomen.model.measures import label  # noqa: E402
+
+COLUMNS = ("recovery_at_1", "recovery_at_5", "detection_auc", "recall_at_1_per_kloc", "recall_at_threshold",
+           "false_alarms_per_kloc")
+
 
 def cell(value) -> str:
     return "–" if value is None or value != value else f"{value:.3f}"
@@ -17,7 +22,8 @@ def cell(value) -> str:
 
 def main() -> int:
     results = json.loads((RESULTS / "quality.json").read_text())
-    print("| corpus | variant | r@1 | r@5 | AUC | recall@1FA/kLOC | recall@thr | FA/kLOC | r@5 ÷ counts | ceiling |")
+    print("| corpus | variant | " + " | ".join(label(c) for c in COLUMNS) +
+          f" | {label('recovery_at_5')} ÷ context counts | {label('true_name_reachable')} |")
     print("|---|---|---|---|---|---|---|---|---|---|")
     for corpus, variants in results.items():
         if not isinstance(variants, dict) or "full model" not in variants:

@@ -1,6 +1,6 @@
 """Benchmark: `cognomen review` of a change touching 50 files, model load included.
 
-Also times the weekly retrain of the standard library with 1% of files changed, quality gate
+Also times the weekly retrain of the standard library with 1% of files changed, promotion check
 included. Writes bench-results/review.json. Targets: review <= 5 s; retrain <= 60 s.
 """
 
@@ -61,7 +61,7 @@ def main() -> int:
         retrain, retrain_seconds = cognomen(repo, "train", "--quiet", "--if-changed")
     print(f"first training (not a target): {train_seconds:.1f} s")
     print(f"review of a 50-file change, model load included: {review_seconds:.2f} s (target <= 5 s)")
-    print(f"weekly retrain with 1% of files changed, gate included: {retrain_seconds:.1f} s (target <= 60 s); "
+    print(f"weekly retrain with 1% of files changed, promotion check included: {retrain_seconds:.1f} s (target <= 60 s); "
           f"exit {retrain.returncode}: {retrain.stdout.splitlines()[0] if retrain.stdout else retrain.stderr}")
     save("review", {"review_seconds": round(review_seconds, 2), "retrain_seconds": round(retrain_seconds, 1),
                     "retrain_exit": retrain.returncode, "first_train_seconds": round(train_seconds, 1)})
