@@ -109,6 +109,14 @@ class Language:
             j -= 1
         return range(j + 1, brace)
 
+    def visible_from(self, tokens: list[Token], index: int, body: int) -> int:
+        """Token index from which the name bound at `index` refers to it; `body` is its block's "{".
+
+        Before that (a declaration's own initializer in Go or Rust, a parameter's type) the name
+        still means whatever it meant outside. Here: at once.
+        """
+        return index
+
     def occurrence_role(self, tokens: list[Token], j: int, opening: int) -> str:
         """USE, KEY or SHORTHAND for the name at j; `opening` is the innermost "{" around it (or -1)."""
         return USE
