@@ -13,7 +13,6 @@ SHORTHAND = "shorthand"  # both at once (`{timeout}`): a rename writes `timeout:
 
 _TYPE_BLOCK_WORDS = frozenset({"class", "interface", "struct", "enum", "namespace", "impl", "trait",
                                "mod", "record", "union", "module", "type", "extern"})
-_CONTROL_WORDS = frozenset({"if", "while", "for", "switch", "catch", "foreach", "using", "lock", "match"})
 
 
 class Language:
@@ -35,6 +34,8 @@ class Language:
     declaration_operators: frozenset[str] = frozenset()  # operators that may start a declaration (`|x|`)
     # A block whose header starts with one of these owns the names its header declares.
     scoped_headers = frozenset({"for", "foreach", "catch", "while", "using", "switch", "|"})
+    # Before a parenthesised list that a block follows, these make it a condition, never parameters.
+    control_words = frozenset({"if", "while", "for", "switch", "catch", "foreach", "using", "lock", "match"})
 
     def lex(self, text: str, keep_comments: bool = False, raw: bool = False) -> list[Token]:
         """Normalised tokens (see `tokens.lex_with_pygments`)."""
@@ -68,7 +69,7 @@ class Language:
         if j < 0 or tokens[j].text != ")":
             return None
         opening = matching_open(tokens, j)
-        if opening <= 0 or tokens[opening - 1].text in _CONTROL_WORDS:
+        if opening <= 0 or tokens[opening - 1].text in self.control_words:
             return None
         return opening, j
 
@@ -79,7 +80,7 @@ class Language:
             texts = [tokens[k].text for k in group]
             head = group[:texts.index("=")] if "=" in texts else group
             names = [k for k in head if tokens[k].kind == NAME]
-            if len(head) >= 2 and names and names[-1] == head[-1]:
+            if len(head) >= 2 and names and names[-1] == head[-1] and not _is_member(self, tokens, head):
                 found.append(head[-1])
         return found
 
@@ -131,6 +132,12 @@ class Language:
 
 
 # --- helpers the language modules share -------------------------------------------------
+
+
+def _is_member(language: Language, tokens: list[Token], head: list[int]) -> bool:
+    """Whether a list item ends in a member, `this.lock`, rather than a parameter (`int... amounts`)."""
+    return tokens[head[-2]].text in language.member_access and \
+        (len(head) < 3 or tokens[head[-3]].text not in language.member_access)
 
 
 def matching_open(tokens: list[Token], closing: int) -> int:
