@@ -189,11 +189,13 @@ def parameter_groups(tokens: list[Token], opening: int, closing: int) -> list[li
     return [group for group in groups if group]
 
 
-_TYPE_PUNCTUATION = frozenset({"::", ".", "*", "&", "?", "[", "]"})
+TYPE_PUNCTUATION = frozenset({"::", ".", "*", "&", "[", "]"})
 _BOUNDARIES = frozenset({";", "{", "}", "(", ","})
+_NOT_IN_GENERICS = frozenset({";", "{", "}", "=", "&&", "||", "return"})
 
 
-def looks_like_type_end(tokens: list[Token], i: int, not_before_type: frozenset[str]) -> bool:
+def looks_like_type_end(tokens: list[Token], i: int, not_before_type: frozenset[str],
+                        punctuation: frozenset[str] = TYPE_PUNCTUATION) -> bool:
     """Whether tokens up to i read as a type that starts a declaration (`final List<String>`, `int *`).
 
     The type must begin at a statement boundary or after a modifier: in `sum += item * scale;`
@@ -209,6 +211,8 @@ def looks_like_type_end(tokens: list[Token], i: int, not_before_type: frozenset[
                 depth += {">": 1, ">>": 2, "<": -1}.get(tokens[j].text, 0)
                 if depth <= 0:
                     break
+                if tokens[j].text in _NOT_IN_GENERICS:
+                    return False  # `bits = token >> SHIFT;` shifts
                 j -= 1
             j -= 1
             continue
@@ -220,7 +224,7 @@ def looks_like_type_end(tokens: list[Token], i: int, not_before_type: frozenset[
             if token.text in not_before_type or token.text in ("true", "false", "null", "this", "super"):
                 return False
             words_seen += 1
-        elif token.text not in _TYPE_PUNCTUATION:
+        elif token.text not in punctuation:
             return words_seen > 0 and token.text in _BOUNDARIES
         j -= 1
     return words_seen > 0

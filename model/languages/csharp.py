@@ -17,6 +17,7 @@ class CSharp(TypedLanguage):
     keyword_arguments = True  # `Send(timeout: 5)`
     declaration_words = frozenset({"var"})
     declaration_followers = frozenset({"=", ";", ":", "in"})  # `foreach (Reading reading in readings)`
+    type_punctuation = TypedLanguage.type_punctuation | {"?"}  # `int? limit = null;`
 
     def occurrence_role(self, tokens: list[Token], j: int, opening: int) -> str:
         # `new Options { Timeout = timeout }` sets a property; `new { timeout }` names one after the variable.

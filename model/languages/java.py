@@ -6,7 +6,7 @@ import functools
 import re
 
 from ..tokens import NAME, Token, lex_with_pygments
-from .base import Language, looks_like_type_end, matching_open, parameter_groups, words
+from .base import TYPE_PUNCTUATION, Language, looks_like_type_end, matching_open, parameter_groups, words
 
 NOT_BEFORE_TYPE = words("return new throw case else goto typeof await yield in of instanceof delete void "
                         "sizeof go defer")
@@ -16,6 +16,7 @@ class TypedLanguage(Language):
     """A language whose declarations put the type first: `Type name = value;`."""
 
     declaration_followers = frozenset({"=", ";", ":"})  # what may follow the declared name
+    type_punctuation = TYPE_PUNCTUATION  # what may stand between a type's words (`std::string *`)
 
     def declarations(self, tokens: list[Token], i: int) -> list[int]:
         token = tokens[i]
@@ -24,8 +25,9 @@ class TypedLanguage(Language):
             return [i + 1]  # `var total = ...` (some lexers read `var` as a name)
         if token.kind == NAME:
             if i and following in self.declaration_followers and \
-                    looks_like_type_end(tokens, i - 1, NOT_BEFORE_TYPE) and \
-                    tokens[i - 1].text not in self.declaration_words:
+                    looks_like_type_end(tokens, i - 1, NOT_BEFORE_TYPE, self.type_punctuation) and \
+                    tokens[i - 1].text not in self.declaration_words and \
+                    not (following == ":" and tokens[i - 1].text == "?"):  # `ready ? on : off`
                 return [i]
             return []
         if token.text == "catch" and following == "(":
