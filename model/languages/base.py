@@ -170,6 +170,20 @@ def matching_close(tokens: list[Token], opening: int) -> int:
     return len(tokens)
 
 
+def directly_inside(tokens: list[Token], opening: int, j: int) -> bool:
+    """Whether token j sits in the braces at `opening` outside any nested bracket."""
+    depth = 0
+    for k in range(j - 1, opening, -1):
+        text = tokens[k].text
+        if text in (")", "]", "}"):
+            depth += 1
+        elif text in ("(", "[", "{"):
+            if depth == 0:
+                return False
+            depth -= 1
+    return True
+
+
 def parameter_groups(tokens: list[Token], opening: int, closing: int) -> list[list[int]]:
     """Token indices of each comma-separated item between two brackets, nested brackets kept whole."""
     groups: list[list[int]] = [[]]

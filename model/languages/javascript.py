@@ -5,7 +5,7 @@ from __future__ import annotations
 import re
 
 from ..tokens import KEYWORD, NAME, OPERATOR, Token
-from .base import KEY, SHORTHAND, USE, Language, matching_close, parameter_groups, words
+from .base import KEY, SHORTHAND, USE, Language, directly_inside, matching_close, parameter_groups, words
 
 _RESERVED = words("""break case catch class const continue debugger default delete do else export
     extends finally for function if import in instanceof new return super switch this throw try typeof var
@@ -151,20 +151,6 @@ def is_object_brace(tokens: list[Token], opening: int) -> bool:
         # `key: {` in an object, but `case X: {` and `default: {` open blocks.
         return not (opening >= 3 and tokens[opening - 3].text == "case") and tokens[opening - 2].text != "default"
     return before in _OBJECT_BEFORE
-
-
-def directly_inside(tokens: list[Token], opening: int, j: int) -> bool:
-    """Whether token j sits in the braces at `opening` outside any nested bracket."""
-    depth = 0
-    for k in range(j - 1, opening, -1):
-        text = tokens[k].text
-        if text in (")", "]", "}"):
-            depth += 1
-        elif text in ("(", "[", "{"):
-            if depth == 0:
-                return False
-            depth -= 1
-    return True
 
 
 JAVASCRIPT = JavaScript()
