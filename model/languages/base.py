@@ -192,8 +192,8 @@ def parameter_groups(tokens: list[Token], opening: int, closing: int) -> list[li
         text = tokens[k].text
         if text in ("(", "[", "{", "<"):
             depth += 1
-        elif text in (")", "]", "}", ">") and depth:
-            depth -= 1
+        elif text in (")", "]", "}", ">", ">>", ">>>") and depth:
+            depth = max(0, depth - len(text) if text[0] == ">" else depth - 1)  # `Map<K, List<V>>`
             groups[-1].append(k)
             continue
         if text == "," and depth == 0:
