@@ -79,20 +79,7 @@ class Rust(Language):
         start = index
         while start > body and tokens[start].text not in ("let", ";", "{", "}"):
             start -= 1
-        if tokens[start].text != "let":
-            return index
-        depth = 0
-        for k in range(start, len(tokens)):
-            text = tokens[k].text
-            if text in ("(", "[", "{"):
-                depth += 1
-            elif text in (")", "]", "}"):
-                depth -= 1
-                if depth < 0:
-                    return k  # the block ended
-            elif text == ";" and depth == 0:
-                return k
-        return len(tokens)
+        return _pattern_end(tokens, start, (";",)) if tokens[start].text == "let" else index
 
     def occurrence_role(self, tokens: list[Token], j: int, opening: int) -> str:
         # `Config { timeout: t }` and `Config { timeout }` in literals and patterns.
