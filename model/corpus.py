@@ -23,7 +23,7 @@ from .tokens import Token
 
 MAX_FILE_BYTES = 1 << 20
 MAX_LINE_CHARS = 1000  # a longer line marks a minified or generated file
-CACHE_FORMAT = 5
+CACHE_FORMAT = 6  # 6: the token-based scope fixes read other variables and tokens
 
 DEFAULT_EXCLUDES = (
     "node_modules", "vendor", "third_party", "third-party", "build", "dist", "out", "target",
