@@ -104,9 +104,13 @@ def token_variables(tokens: list[Token], language) -> list[Variable]:
                 dictated_blocks[block_id] = reason
     declarations = [(index, header_block.get(index, block_id), kind) for index, block_id, kind in declarations]
 
-    declared_in: dict[tuple[int, str], int] = {}
+    # Each binding's block, and the first line of each block's scope (a parameter list may start
+    # lines before its body's "{").
+    binding_block: dict[int, int] = {}
+    first_line: dict[int, int] = {}
     for index, block_id, _ in declarations:
-        declared_in.setdefault((block_id, tokens[index].text), index)
+        binding_block.setdefault(index, block_id)
+        first_line[block_id] = min(first_line.get(block_id, tokens[blocks[block_id].start].line), tokens[index].line)
 
     # Where each name occurs, so a variable's uses are found without scanning its whole block.
     places: dict[str, list[int]] = {}
@@ -124,17 +128,24 @@ def token_variables(tokens: list[Token], language) -> list[Variable]:
         seen.add((block_id, name))
         block = blocks[block_id]
         occurrences, shorthand = [], []
-        shadowed_until = -1
+        # Until the binding is visible (a Go or Rust declaration's own right-hand side, a parameter's
+        # type), its name still means whatever it meant outside.
+        visible = language.visible_from(tokens, index, block.start)
+        shadowed_from, shadowed_until = count, -1
         named = places.get(name, [])
         for j in named[bisect.bisect_left(named, index):bisect.bisect_left(named, block.end)]:
-            if j <= shadowed_until:
+            if shadowed_from <= j <= shadowed_until or index < j < visible:
                 continue
-            inner = block_of[j]
-            if j != index and inner != block_id and declared_in.get((inner, name), count) <= j:
-                shadowed_until = blocks[inner].end
+            other = binding_block.get(j, block_id)
+            if other != block_id:
+                # Another variable of the same name, bound in an inner block: from where it is visible
+                # to the end of its block, the name is that variable's.
+                shadowed_from = language.visible_from(tokens, j, blocks[other].start)
+                shadowed_until = blocks[other].end
                 continue
             if j != index and j and tokens[j - 1].text in member_access:
                 continue
+            inner = block_of[j]
             role = language.occurrence_role(tokens, j, blocks[inner].start if inner >= 0 else -1)
             if role == KEY:
                 continue
@@ -153,7 +164,7 @@ def token_variables(tokens: list[Token], language) -> list[Variable]:
             name=name,
             kind=kind,
             occurrences=occurrences,
-            scope_start=tokens[block.start].line,
+            scope_start=first_line[block_id],
             scope_end=tokens[block.end - 1].line if block.end > 0 else tokens[-1].line,
             public_parameter=kind == PARAMETER and block_id in public_blocks,
             dictated=dictated_blocks.get(block_id, "") if kind == PARAMETER else "",

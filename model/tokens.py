@@ -67,8 +67,9 @@ def token_kind(ttype) -> str | None:
     return None
 
 
-def lex_with_pygments(text: str, alias: str, keep_comments: bool = False, raw: bool = False) -> list[Token]:
-    """Normalised tokens from the pygments lexer named `alias`.
+def lex_with_pygments(text: str, alias: str, keep_comments: bool = False, raw: bool = False,
+                      lexer=None) -> list[Token]:
+    """Normalised tokens from the pygments lexer named `alias` (or the given lexer object).
 
     String fragments merge into one STRING_TOKEN, numbers become NUMBER_TOKEN, comments
     are dropped unless asked for (then their text is replaced by the kind, never kept).
@@ -77,7 +78,7 @@ def lex_with_pygments(text: str, alias: str, keep_comments: bool = False, raw: b
     tokens: list[Token] = []
     line, column = 1, 1
     previous_kind = None
-    for _, ttype, value in _lexer(alias).get_tokens_unprocessed(text):
+    for _, ttype, value in (lexer or _lexer(alias)).get_tokens_unprocessed(text):
         kind = token_kind(ttype)
         start_line, start_column = line, column
         newlines = value.count("\n")

@@ -13,7 +13,6 @@ SHORTHAND = "shorthand"  # both at once (`{timeout}`): a rename writes `timeout:
 
 _TYPE_BLOCK_WORDS = frozenset({"class", "interface", "struct", "enum", "namespace", "impl", "trait",
                                "mod", "record", "union", "module", "type", "extern"})
-_CONTROL_WORDS = frozenset({"if", "while", "for", "switch", "catch", "foreach", "using", "lock", "match"})
 
 
 class Language:
@@ -44,6 +43,8 @@ class Language:
                                   "vector", "Sequence", "Stream", "Iterator", "Slice"})
     # A block whose header starts with one of these owns the names its header declares.
     scoped_headers = frozenset({"for", "foreach", "catch", "while", "using", "switch", "|"})
+    # Before a parenthesised list that a block follows, these make it a condition, never parameters.
+    control_words = frozenset({"if", "while", "for", "switch", "catch", "foreach", "using", "lock", "match"})
 
     def lex(self, text: str, keep_comments: bool = False, raw: bool = False) -> list[Token]:
         """Normalised tokens (see `tokens.lex_with_pygments`)."""
@@ -77,7 +78,7 @@ class Language:
         if j < 0 or tokens[j].text != ")":
             return None
         opening = matching_open(tokens, j)
-        if opening <= 0 or tokens[opening - 1].text in _CONTROL_WORDS:
+        if opening <= 0 or tokens[opening - 1].text in self.control_words:
             return None
         return opening, j
 
@@ -88,7 +89,7 @@ class Language:
             texts = [tokens[k].text for k in group]
             head = group[:texts.index("=")] if "=" in texts else group
             names = [k for k in head if tokens[k].kind == NAME]
-            if len(head) >= 2 and names and names[-1] == head[-1]:
+            if len(head) >= 2 and names and names[-1] == head[-1] and not _is_member(self, tokens, head):
                 found.append(head[-1])
         return found
 
@@ -118,6 +119,14 @@ class Language:
             j -= 1
         return range(j + 1, brace)
 
+    def visible_from(self, tokens: list[Token], index: int, body: int) -> int:
+        """Token index from which the name bound at `index` refers to it; `body` is its block's "{".
+
+        Before that (a declaration's own initializer in Go or Rust, a parameter's type) the name
+        still means whatever it meant outside. Here: at once.
+        """
+        return index
+
     def occurrence_role(self, tokens: list[Token], j: int, opening: int) -> str:
         """USE, KEY or SHORTHAND for the name at j; `opening` is the innermost "{" around it (or -1)."""
         return USE
@@ -146,6 +155,12 @@ class Language:
 
 
 # --- helpers the language modules share -------------------------------------------------
+
+
+def _is_member(language: Language, tokens: list[Token], head: list[int]) -> bool:
+    """Whether a list item ends in a member, `this.lock`, rather than a parameter (`int... amounts`)."""
+    return tokens[head[-2]].text in language.member_access and \
+        (len(head) < 3 or tokens[head[-3]].text not in language.member_access)
 
 
 def matching_open(tokens: list[Token], closing: int) -> int:
@@ -178,6 +193,20 @@ def matching_close(tokens: list[Token], opening: int) -> int:
     return len(tokens)
 
 
+def directly_inside(tokens: list[Token], opening: int, j: int) -> bool:
+    """Whether token j sits in the braces at `opening` outside any nested bracket."""
+    depth = 0
+    for k in range(j - 1, opening, -1):
+        text = tokens[k].text
+        if text in (")", "]", "}"):
+            depth += 1
+        elif text in ("(", "[", "{"):
+            if depth == 0:
+                return False
+            depth -= 1
+    return True
+
+
 def parameter_groups(tokens: list[Token], opening: int, closing: int) -> list[list[int]]:
     """Token indices of each comma-separated item between two brackets, nested brackets kept whole."""
     groups: list[list[int]] = [[]]
@@ -186,8 +215,8 @@ def parameter_groups(tokens: list[Token], opening: int, closing: int) -> list[li
         text = tokens[k].text
         if text in ("(", "[", "{", "<"):
             depth += 1
-        elif text in (")", "]", "}", ">") and depth:
-            depth -= 1
+        elif text in (")", "]", "}", ">", ">>", ">>>") and depth:
+            depth = max(0, depth - len(text) if text[0] == ">" else depth - 1)  # `Map<K, List<V>>`
             groups[-1].append(k)
             continue
         if text == "," and depth == 0:
@@ -197,11 +226,13 @@ def parameter_groups(tokens: list[Token], opening: int, closing: int) -> list[li
     return [group for group in groups if group]
 
 
-_TYPE_PUNCTUATION = frozenset({"::", ".", "*", "&", "?", "[", "]"})
+TYPE_PUNCTUATION = frozenset({"::", ".", "*", "&", "[", "]"})
 _BOUNDARIES = frozenset({";", "{", "}", "(", ","})
+_NOT_IN_GENERICS = frozenset({";", "{", "}", "=", "&&", "||", "return"})
 
 
-def looks_like_type_end(tokens: list[Token], i: int, not_before_type: frozenset[str]) -> bool:
+def looks_like_type_end(tokens: list[Token], i: int, not_before_type: frozenset[str],
+                        punctuation: frozenset[str] = TYPE_PUNCTUATION) -> bool:
     """Whether tokens up to i read as a type that starts a declaration (`final List<String>`, `int *`).
 
     The type must begin at a statement boundary or after a modifier: in `sum += item * scale;`
@@ -217,6 +248,8 @@ def looks_like_type_end(tokens: list[Token], i: int, not_before_type: frozenset[
                 depth += {">": 1, ">>": 2, "<": -1}.get(tokens[j].text, 0)
                 if depth <= 0:
                     break
+                if tokens[j].text in _NOT_IN_GENERICS:
+                    return False  # `bits = token >> SHIFT;` shifts
                 j -= 1
             j -= 1
             continue
@@ -228,7 +261,7 @@ def looks_like_type_end(tokens: list[Token], i: int, not_before_type: frozenset[
             if token.text in not_before_type or token.text in ("true", "false", "null", "this", "super"):
                 return False
             words_seen += 1
-        elif token.text not in _TYPE_PUNCTUATION:
+        elif token.text not in punctuation:
             return words_seen > 0 and token.text in _BOUNDARIES
         j -= 1
     return words_seen > 0

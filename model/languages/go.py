@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import re
 
-from ..tokens import KEYWORD, NAME, Token
+from ..tokens import KEYWORD, NAME, OPERATOR, Token
 from .base import KEY, USE, Language, matching_close, parameter_groups, words
 
 # Before a "{" on its line, these make it a block rather than a composite literal.
@@ -41,14 +41,25 @@ class Go(Language):
                     k += 2
                 else:
                     break
-            return found
+            return [k for k in found if tokens[k].text != "_"]
         if token.kind == NAME and i + 1 < len(tokens) and tokens[i + 1].text == ":=":
             found, j = [i], i - 1
             while j > 0 and tokens[j].text == "," and tokens[j - 1].kind == NAME:
                 found.append(j - 1)
                 j -= 2
-            return found
+            return [k for k in found if tokens[k].text != "_"]  # the blank identifier binds nothing
         return []
+
+    def visible_from(self, tokens: list[Token], index: int, body: int) -> int:
+        # A parameter is visible in the body, a declared name after its declaration: in
+        # `func f(url *url.URL)` and `net, err := net.Dial(...)` the second name is the package.
+        if index < body:
+            k = index + 1
+            while k + 1 < len(tokens) and tokens[k].text == "," and tokens[k + 1].kind == NAME:
+                k += 2
+            if k >= len(tokens) or tokens[k].text != ":=":
+                return body  # a parameter or named result
+        return _statement_end(self, tokens, index)
 
     def parameters_before(self, tokens: list[Token], brace: int) -> list[int]:
         """A function's parameters and named results: `func (r *T) Name(a, b int) (n int, err error) {`."""
@@ -138,6 +149,29 @@ class Go(Language):
                     texts[position - 1].text == "func" or texts[position - 1].text == ")"):
                 return token.text[:1].isupper()
         return False
+
+
+def _statement_end(language: Go, tokens: list[Token], start: int) -> int:
+    """Index of the token that ends the simple statement at `start`: a ";", a block's "{", or a line's end."""
+    depth = 0
+    for k in range(start, len(tokens)):
+        text = tokens[k].text
+        if text in ("(", "["):
+            depth += 1
+        elif text == "{":
+            if depth == 0 and not _is_literal_brace(language, tokens, k):
+                return k
+            depth += 1
+        elif text in (")", "]", "}"):
+            if depth == 0:
+                return k
+            depth -= 1
+        elif depth == 0 and text == ";":
+            return k
+        if depth == 0 and k + 1 < len(tokens) and tokens[k + 1].line != tokens[k].line and \
+                (tokens[k].kind != OPERATOR or text in (")", "]", "}", "++", "--")):
+            return k + 1  # Go ends a statement at a line's end after a name, literal or closing bracket
+    return len(tokens)
 
 
 def _is_literal_brace(language: Go, tokens: list[Token], opening: int) -> bool:

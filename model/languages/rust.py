@@ -4,8 +4,8 @@ from __future__ import annotations
 
 import re
 
-from ..tokens import KEYWORD, NAME, Token
-from .base import KEY, SHORTHAND, USE, Language, matching_close, parameter_groups, words
+from ..tokens import KEYWORD, NAME, STRING, Token
+from .base import KEY, SHORTHAND, USE, Language, directly_inside, matching_close, parameter_groups, words
 
 # After these, a "|" opens a closure's parameters rather than being an operator.
 _CLOSURE_BEFORE = frozenset({"(", ",", "=", "move", "{", ";", "return", "=>", ":"})
@@ -47,8 +47,8 @@ class Rust(Language):
                 depth += 1
             elif text in ("(", "[", "<"):
                 depth -= 1
-            elif depth <= 0 and text in ("{", "}", ";", "=", "=>"):
-                return []
+            elif text in ("{", "}", ";") or depth <= 0 and text in ("=", "=>"):
+                return []  # a signature holds no block nor statement: `if a > b {` is no function
             elif text == "fn" and tokens[j].kind == KEYWORD:
                 break
             elif depth == 0 and text == "|":
@@ -78,13 +78,27 @@ class Rust(Language):
             j -= 1
         return ""
 
+    def lex(self, text: str, keep_comments: bool = False, raw: bool = False) -> list[Token]:
+        return _with_format_names(text, _join_lifetimes(super().lex(text, keep_comments, raw)))
+
+    def visible_from(self, tokens: list[Token], index: int, body: int) -> int:
+        # A parameter, closure parameter or `for`/`if let` binding is visible in its block; a `let` after
+        # its statement: in `let total = total + 1;` the second `total` is the earlier one.
+        if index < body:
+            return body
+        start = index
+        while start > body and tokens[start].text not in ("let", ";", "{", "}"):
+            start -= 1
+        return _pattern_end(tokens, start, (";",)) if tokens[start].text == "let" else index
+
     def occurrence_role(self, tokens: list[Token], j: int, opening: int) -> str:
         # `Config { timeout: t }` and `Config { timeout }` in literals and patterns.
         if opening <= 1 or not j or tokens[j - 1].text not in ("{", ",") or j + 1 >= len(tokens):
             return USE
         following = tokens[j + 1].text
-        if following not in (":", ",", "}") or not _is_struct_brace(tokens, opening):
-            return USE
+        if following not in (":", ",", "}") or not _is_struct_brace(tokens, opening) or \
+                not directly_inside(tokens, opening, j):
+            return USE  # `Point { x: f(a, b) }`: `a` is an argument
         return KEY if following == ":" else SHORTHAND
 
     def is_public_function(self, tokens: list[Token], header: range) -> bool:
@@ -113,8 +127,8 @@ def pattern_names(tokens: list[Token], start: int, end: int) -> list[int]:
     found = []
     for k in range(start, end):
         token = tokens[k]
-        if token.kind != NAME or token.text == "_" or token.text[:1].isupper():
-            continue  # variants, structs and constants are capitalised
+        if token.kind != NAME or token.text == "_" or token.text[:1].isupper() or not token.text.isidentifier():
+            continue  # variants, structs and constants are capitalised; `'a` is a lifetime
         before = tokens[k - 1].text if k else ""
         after = tokens[k + 1].text if k + 1 < len(tokens) else ""
         if before == "::" or after in ("(", "{", "::", "!", "."):
@@ -163,6 +177,83 @@ def _is_struct_brace(tokens: list[Token], opening: int) -> bool:
     while k > 0 and tokens[k].text == "::" and tokens[k - 1].kind == NAME:
         k -= 2
     return tokens[k].text not in _NOT_LITERAL_BEFORE
+
+
+def _join_lifetimes(tokens: list[Token]) -> list[Token]:
+    """`'a` as one token (pygments reads a quote and a name): a lifetime is no variable."""
+    joined: list[Token] = []
+    for token in tokens:
+        previous = joined[-1] if joined else None
+        if previous is not None and previous.text == "'" and token.kind == NAME and previous.line == token.line \
+                and previous.column + 1 == token.column:
+            joined[-1] = Token("'" + token.text, NAME, previous.line, previous.column)
+        else:
+            joined.append(token)
+    return joined
+
+
+# Macros whose string arguments are format strings: `{total}` there names a variable.
+_FORMAT_MACROS = frozenset({"format", "print", "println", "eprint", "eprintln", "write", "writeln", "panic",
+                            "format_args", "assert", "assert_eq", "assert_ne", "debug_assert", "debug_assert_eq",
+                            "debug_assert_ne", "unreachable", "todo", "unimplemented", "trace", "debug", "info",
+                            "warn", "error"})
+_INLINE_ARGUMENT = re.compile(r"\{\{|\{([A-Za-z_][A-Za-z0-9_]*)(?=[:}])")
+
+
+def _with_format_names(text: str, tokens: list[Token]) -> list[Token]:
+    """Tokens with the names that format strings capture (`println!("{total}")`) added as names at their
+    places, so a rename reaches them."""
+    lines = text.split("\n")
+    result: list[Token] = []
+    depth = 0
+    macro_depths: list[int] = []  # bracket depths at which a format macro's arguments are read
+    for k, token in enumerate(tokens):
+        result.append(token)
+        if token.text in ("(", "[", "{"):
+            depth += 1
+            if k > 1 and tokens[k - 1].text == "!" and tokens[k - 2].text in _FORMAT_MACROS:
+                macro_depths.append(depth)
+        elif token.text in (")", "]", "}"):
+            if macro_depths and macro_depths[-1] == depth:
+                macro_depths.pop()
+            depth -= 1
+        elif token.kind == STRING and macro_depths and macro_depths[-1] == depth:
+            result.extend(_captured_names(lines, token))
+    return result
+
+
+def _captured_names(lines: list[str], token: Token) -> list[Token]:
+    """Names in `{name}` and `{name:>8}` of the string literal that starts at the token."""
+    line, column = token.line, token.column
+    text = lines[line - 1]
+    start = column - 1
+    quote = text.find('"', start)
+    if quote < 0 or text[start:quote].strip("rb#"):
+        return []
+    raw = text[start:quote].startswith("r")
+    found, k = [], quote + 1
+    while True:
+        while k < len(text):
+            char = text[k]
+            if char == "\\" and not raw:
+                k += 2
+                continue
+            if char == '"':
+                return found
+            if char == "{":
+                match = _INLINE_ARGUMENT.match(text, k)
+                if match and match.group(1):
+                    found.append(Token(match.group(1), NAME, line, match.start(1) + 1))
+                    k = match.end()
+                    continue
+                if match:
+                    k = match.end()
+                    continue
+            k += 1
+        line += 1  # the literal goes on past the line's end
+        if line > len(lines):
+            return found
+        text, k = lines[line - 1], 0
 
 
 RUST = Rust()

@@ -11,13 +11,11 @@ from __future__ import annotations
 
 import argparse
 import dataclasses
-import subprocess
 import sys
-import tarfile
-import zipfile
 from pathlib import Path
 
 sys.path.insert(0, str(Path(__file__).resolve().parent))
+sys.path.insert(0, str(Path(__file__).resolve().parents[2]))
 
 from common import STDLIB, save  # noqa: E402
 
@@ -26,46 +24,11 @@ from cognomen.model.evaluation import evaluate_corpus, format_table  # noqa: E40
 from cognomen.model.measures import label  # noqa: E402
 from cognomen.model.pipeline import STDLIB_EXCLUDES, load_background  # noqa: E402
 from cognomen.model.training import TrainSettings  # noqa: E402
+from tests.downloads import CACHE, fetch_debian, fetch_npm, fetch_pypi  # noqa: E402
 
-CACHE = Path.home() / ".cache" / "cognomen-bench"
 PYPI = {"requests": "2.32.3", "click": "8.1.7", "networkx": "3.4.2"}
+GO_NET_VERSION = "1:0.7.0+dfsg-1"
 DOMAINS = {"requests": "HTTP client", "click": "command-line interfaces", "networkx": "graph algorithms"}
-
-
-def fetch_pypi(name: str, version: str) -> Path:
-    target = CACHE / f"{name}-{version}"
-    if not target.exists():
-        downloads = CACHE / "downloads"
-        downloads.mkdir(parents=True, exist_ok=True)
-        subprocess.run([sys.executable, "-m", "pip", "download", "--quiet", "--no-deps", "--only-binary", ":all:",
-                        "-d", str(downloads), f"{name}=={version}"], check=True)
-        wheel = next(w for w in downloads.glob("*.whl") if w.name.lower().startswith(f"{name}-{version}-".lower()))
-        with zipfile.ZipFile(wheel) as archive:
-            archive.extractall(target)
-    return target
-
-
-def fetch_npm(name: str, version: str) -> Path:
-    target = CACHE / f"npm-{name}-{version}"
-    if not target.exists():
-        downloads = CACHE / "downloads"
-        downloads.mkdir(parents=True, exist_ok=True)
-        subprocess.run(["npm", "pack", f"{name}@{version}", "--silent", "--pack-destination", str(downloads)],
-                       check=True, capture_output=True)
-        with tarfile.open(downloads / f"{name}-{version}.tgz") as archive:
-            archive.extractall(target, filter="data")
-    return target
-
-
-def fetch_debian(package: str) -> Path:
-    target = CACHE / f"deb-{package}"
-    if not target.exists():
-        downloads = CACHE / "downloads"
-        downloads.mkdir(parents=True, exist_ok=True)
-        subprocess.run(["apt-get", "download", package], cwd=downloads, check=True, capture_output=True)
-        deb = next(downloads.glob(f"{package}_*.deb"))
-        subprocess.run(["dpkg-deb", "-x", str(deb), str(target)], check=True)
-    return target
 
 
 def corpora() -> list[tuple[str, Path, Settings]]:
@@ -78,7 +41,7 @@ def corpora() -> list[tuple[str, Path, Settings]]:
     found.append(("moment 2.30.1 src/ (JavaScript dates, npm)", fetch_npm("moment", "2.30.1"),
                   Settings(include=["package/src/*"])))
     found.append(("golang.org/x/net 0.7.0 (Go networking, Debian golang-golang-x-net-dev)",
-                  fetch_debian("golang-golang-x-net-dev"), Settings(exclude=["*_test.go"])))
+                  fetch_debian("golang-golang-x-net-dev", GO_NET_VERSION), Settings(exclude=["*_test.go"])))
     return found
 
 

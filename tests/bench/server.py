@@ -121,7 +121,7 @@ async def edit_latencies(client, uri: str, lines: list[str]) -> dict:
 
 def two_thousand_javascript_lines(workspace: Path) -> Path:
     """moment.js (npm, 2.30.1) up to line 2,000: a real JavaScript file, read whole on every edit."""
-    from quality import fetch_npm
+    from tests.downloads import fetch_npm
     text = (fetch_npm("moment", "2.30.1") / "package" / "moment.js").read_text(encoding="utf-8").split("\n")[:2000]
     path = workspace / "big_script.js"
     path.write_text("\n".join(text) + "\n")
@@ -176,7 +176,8 @@ def main() -> int:
     with tempfile.TemporaryDirectory(prefix="cognomen-bench-") as scratch:
         workspace = copy_stdlib(Path(scratch) / "stdlib")
         # More code than the standard library alone, for a vocabulary of about 50,000 tokens.
-        from quality import fetch_debian, fetch_npm, fetch_pypi
+        from quality import GO_NET_VERSION
+        from tests.downloads import fetch_debian, fetch_npm, fetch_pypi
         for name, extra in (("networkx", fetch_pypi("networkx", "3.4.2")),
                             ("requests", fetch_pypi("requests", "2.32.3")),
                             ("click", fetch_pypi("click", "8.1.7")),
@@ -185,7 +186,7 @@ def main() -> int:
                             ("django", fetch_pypi("django", "5.1.4")),
                             ("moment", fetch_npm("moment", "2.30.1")),
                             ("lodash", fetch_npm("lodash", "4.17.21")),
-                            ("xnet", fetch_debian("golang-golang-x-net-dev"))):
+                            ("xnet", fetch_debian("golang-golang-x-net-dev", GO_NET_VERSION))):
             shutil.copytree(extra, workspace / "extra" / name)
         store = Path(scratch) / "store"
         subprocess.run([sys.executable, "-m", "cognomen", "--model-dir", str(store), "train", "--quiet",

@@ -80,3 +80,43 @@ def test_renaming_every_variable_keeps_the_programs_working(tmp_path):
         before = run(language, program, tmp_path / language / "before")
         assert before.strip() == output
         assert run(language, rename(program, language), tmp_path / language / "after") == before
+
+
+# lz4 4.3.3 (PyPI source): lz4.c:871 reads `cctx->tableType` beside a parameter `tableType`, lz4.c:2001
+# shifts by a constant (`token >> ML_BITS;`), lz4/frame/_frame.c:819 passes `linked ? Py_True : Py_False`,
+# lz4hc.c:477 reaches a parameter through a macro (`#define op (*_op)`).
+C_REAL_SHAPES = """\
+#include <stdio.h>
+
+#define SHIFT 4
+typedef struct { int tableType; int size; } state_t;
+
+static int encode(state_t *state, int tableType, int token, int linked, int **_op) {
+#define op (*_op)
+    int length = token >> SHIFT;
+    int on = 1;
+    int off = 0;
+    printf("%d %d\\n", length, linked ? on : off);
+    op = &state->size;
+    return state->tableType == tableType;
+#undef op
+}
+
+int main(void) {
+    state_t current = { 2, 7 };
+    int *place = 0;
+    int same = encode(&current, 2, 64, 1, &place);
+    printf("%d %d\\n", same, *place);
+    return 0;
+}
+"""
+
+
+def test_c_real_shapes_worked_by_hand(tmp_path):
+    found = variables(C_REAL_SHAPES, "c")
+    assert set(found) == {"state", "tableType", "token", "linked", "length", "on", "off", "current", "place", "same"}, \
+        "`SHIFT` and `on` in `linked ? on : off` are no declarations; `_op` is used by a macro's body"
+    assert found["tableType"] == (PARAMETER, [(6, 39), (13, 32)]), "`state->tableType` is a member"
+    before = run("c", C_REAL_SHAPES, tmp_path / "before")
+    assert before == "4 1\n1 7\n"
+    assert run("c", rename(C_REAL_SHAPES, "c"), tmp_path / "after") == before

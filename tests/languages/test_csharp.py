@@ -42,3 +42,29 @@ def test_named_arguments_make_parameter_renames_risky():
     assert get_language("csharp").keyword_arguments and get_language("python").keyword_arguments
     assert not any(get_language(name).keyword_arguments for name in ("javascript", "typescript", "go", "java",
                                                                        "rust", "c", "cpp"))
+
+
+# pythonnet 3.0.5 (PyPI source), src/runtime: Converter.cs:310 writes variables into interpolated strings
+# (`$"... {obType} ..."`); a named argument whose label is a variable's name (`Send(timeout: timeout)`).
+INTERPOLATED = """\
+class Report {
+    string Describe(Type obType, int count, int timeout) {
+        var typeString = obType.Name;
+        Send(timeout: timeout, retries: count);
+        return $"{typeString} x{count,4:N0} in {obType.Namespace} {{literal}}" + $@"
+{timeout}";
+    }
+}
+"""
+
+
+def test_interpolated_strings_and_argument_labels_worked_by_hand():
+    found = variables(INTERPOLATED, "csharp")
+    assert found["typeString"] == (LOCAL, [(3, 13), (5, 19)]), "`{typeString}` in an interpolated string is a use"
+    assert found["count"] == (PARAMETER, [(2, 38), (4, 41), (5, 33)]), "`{count,4:N0}`: the name before its format"
+    assert found["obType"] == (PARAMETER, [(2, 26), (3, 26), (5, 49)])
+    assert found["timeout"] == (PARAMETER, [(2, 49), (4, 23), (6, 2)]), \
+        "`timeout:` labels the argument; a verbatim interpolated string goes on to the next line"
+    renamed = rename(INTERPOLATED, "csharp", {"timeout": "limit", "count": "total"})
+    assert "        Send(timeout: limit, retries: total);" in renamed
+    assert '$"{typeString} x{total,4:N0} in {obType.Namespace} {{literal}}" + $@"\n{limit}";' in renamed

@@ -70,3 +70,38 @@ def test_exported_functions_have_public_parameters():
 
 def found_kind(source, name):
     return next(v.kind for v in source.variables if v.name == name)
+
+
+# golang.org/x/net 0.7.0 (Debian golang-golang-x-net-dev): http/httpproxy/proxy.go:283 names a parameter
+# after the package of its type, proxy/per_host.go:106 declares `net` from a call on package `net`.
+SHADOWED_PACKAGES = """\
+package proxy
+
+import (
+\t"net"
+\t"net/url"
+)
+
+func canonicalAddr(url *url.URL) string {
+\taddr := url.Hostname()
+\treturn addr
+}
+
+func (p *PerHost) AddHost(host string) {
+\tfor _, zone := range p.zones {
+\t\tif _, net, err := net.ParseCIDR(host); err == nil {
+\t\t\tp.AddNetwork(net, zone)
+\t\t}
+\t}
+}
+"""
+
+
+def test_a_package_named_like_a_variable_stays_the_package():
+    found = variables(SHADOWED_PACKAGES, "go")
+    assert found["url"] == (PARAMETER, [(8, 20), (9, 10)]), "`*url.URL` is the package's type"
+    assert found["net"] == (LOCAL, [(15, 9), (16, 17)]), "`net.ParseCIDR` runs before `net` is declared"
+    assert "_" not in found, "the blank identifier binds nothing"
+    renamed = rename(SHADOWED_PACKAGES, "go", {"url": "address", "net": "network"})
+    assert "func canonicalAddr(address *url.URL) string {\n\taddr := address.Hostname()" in renamed
+    assert "if _, network, err := net.ParseCIDR(host); err == nil {\n\t\t\tp.AddNetwork(network, zone)" in renamed

@@ -76,3 +76,51 @@ def test_renaming_every_variable_keeps_the_program_working(tmp_path):
     before = run("java", PROGRAM, tmp_path / "before")
     assert before.strip() == "11 NumberFormatException:a,bb,ccc"
     assert run("java", rename(PROGRAM, "java"), tmp_path / "after") == before
+
+
+# JPype1 1.5.2 (PyPI source), native/java: JPypePackageManager.java:229 names a variable `module`,
+# HtmlWriter.java:49 opens a resource in `try (...)`, JPypeContext.java:615 locks on `this.typeFactory`.
+REAL_SHAPES = """\
+import java.io.*;
+import java.util.*;
+
+public class Snippet {
+    private final List<String> typeFactory = new ArrayList<>();
+
+    int sizes(List<String> modules) throws IOException {
+        int total = 0;
+        for (String module : modules) {
+            total += module.length();
+        }
+        try (StringWriter buffer = new StringWriter();
+                PrintWriter out = new PrintWriter(buffer)) {
+            out.print(total);
+            out.flush();
+            total = Integer.parseInt(buffer.toString());
+        }
+        synchronized (this.typeFactory) {
+            this.typeFactory.add("x");
+        }
+        Comparator<String> byLength = (left, right) -> {
+            return left.length() - right.length();
+        };
+        modules.sort(byLength);
+        return total + typeFactory.size();
+    }
+
+    public static void main(String[] args) throws IOException {
+        System.out.println(new Snippet().sizes(new ArrayList<>(List.of("abc", "de"))));
+    }
+}
+"""
+
+
+def test_real_shapes_worked_by_hand(tmp_path):
+    found = variables(REAL_SHAPES, "java")
+    assert set(found) == {"modules", "total", "module", "buffer", "out", "byLength", "left", "right", "args"}
+    assert found["module"] == (LOCAL, [(9, 21), (10, 22)]), "`module` is a name outside module-info.java"
+    assert found["buffer"] == (LOCAL, [(12, 27), (13, 51), (16, 38)]), "a resource lives in its try block"
+    assert found["left"] == (PARAMETER, [(21, 40), (22, 20)]), "a lambda's untyped parameter"
+    before = run("java", REAL_SHAPES, tmp_path / "before")
+    assert before.strip() == "6"
+    assert run("java", rename(REAL_SHAPES, "java"), tmp_path / "after") == before

@@ -1,8 +1,9 @@
 """JavaScript: bindings worked out by hand, and node as the judge of every rename."""
 
+from cognomen.model.corpus import analyse
 from cognomen.model.scopes import LOCAL, PARAMETER
 
-from .snippets import rename, run, variables
+from .snippets import rename, run, variable_list, variables
 
 # Destructuring with defaults, rest elements and holes; object shorthand in patterns and in
 # literals (a rename must keep the property's name); keys that merely look like variables.
@@ -58,3 +59,29 @@ def test_renaming_every_variable_keeps_the_program_working(tmp_path):
     before = run("javascript", PROGRAM, tmp_path / "before")
     assert before.startswith('{"label":"EUR: grandTotal=5 count=2 bad"')
     assert run("javascript", rename(PROGRAM, "javascript"), tmp_path / "after") == before
+
+
+# moment.js 2.30.1 (npm), `relativeTime$1`: a module-level `thresholds` and a function whose parameter
+# has the same name; the parameter's name sits before the function's "{", outside its body.
+SHADOWING = """\
+(function () {
+  var limit = 10,
+      thresholds = { s: 45 };
+  function describe(seconds,
+                    thresholds) {
+    return seconds < thresholds.s ? "seconds" : "minutes";
+  }
+  console.log(describe(limit, thresholds), describe(50, { s: 60 }));
+})();
+"""
+
+
+def test_a_parameter_shadows_an_outer_variable_of_its_name(tmp_path):
+    found = {(kind, occurrences[0]): occurrences for _, kind, occurrences in variable_list(SHADOWING, "javascript")}
+    assert found[(LOCAL, (3, 7))] == [(3, 7), (8, 31)], "the parameter's binding is not a use of the outer name"
+    assert found[(PARAMETER, (5, 21))] == [(5, 21), (6, 22)]
+    source = analyse(SHADOWING, "snippet.js", "javascript")
+    assert {v.name: v.scope_start for v in source.variables}["seconds"] == 4, "the scope starts at the parameters"
+    before = run("javascript", SHADOWING, tmp_path / "before")
+    assert before == "seconds seconds\n"
+    assert run("javascript", rename(SHADOWING, "javascript"), tmp_path / "after") == before

@@ -63,3 +63,56 @@ def test_renaming_every_variable_keeps_the_program_working(tmp_path):
     before = run("rust", PROGRAM, tmp_path / "before")
     assert before.strip() == "46 2 12"
     assert run("rust", rename(PROGRAM, "rust"), tmp_path / "after") == before
+
+
+# memchr 2.5.0 (Debian librust-memchr-dev): memmem/mod.rs:515 `fn find_iter<'a, 'h>(&'a self, ...)`,
+# memchr/fallback.rs:57 passes variables to a call inside a struct literal, prefilter/mod.rs:247 compares
+# (`if skipped > MAX {`) in a method, memchr/mod.rs:106 nests `fn imp(n1, haystack)` in a function with
+# a parameter of the same name. Format strings name variables since Rust 2021 (`{total}`).
+REAL_SHAPES = """\
+struct Finder<'n> {
+    needle: &'n [u8],
+}
+
+struct Span {
+    start: usize,
+    end: usize,
+}
+
+impl<'n> Finder<'n> {
+    fn find<'a, 'h>(&'a self, haystack: &'h [u8], skipped: usize) -> Option<usize> {
+        if skipped > haystack.len() {
+            return None;
+        }
+        let start = skipped;
+        let span = Span { start: first(start, haystack), end: haystack.len() };
+        fn first(start: usize, haystack: &[u8]) -> usize {
+            start.min(haystack.len())
+        }
+        let total = span.end - span.start;
+        let total = total + self.needle.len();
+        println!("{total} {start:>3} {{literal}}");
+        haystack[span.start..span.end].windows(self.needle.len()).position(|window| window == self.needle)
+    }
+}
+
+fn main() {
+    let finder = Finder { needle: b"lo" };
+    println!("{:?}", finder.find(b"hello world", 1));
+}
+"""
+
+
+def test_real_shapes_worked_by_hand(tmp_path):
+    found = {(name, occurrences[0]): occurrences for name, _, occurrences in variable_list(REAL_SHAPES, "rust")}
+    assert not any(name.startswith("'") or name == "a" for name, _ in found), "lifetimes are no variables"
+    assert found[("skipped", (11, 51))] == [(11, 51), (12, 12), (15, 21)], "`if skipped > ...` is no function"
+    assert found[("haystack", (11, 31))] == [(11, 31), (12, 22), (16, 47), (16, 63), (23, 9)], \
+        "the nested function's parameter is its own"
+    assert found[("start", (15, 13))] == [(15, 13), (16, 40), (22, 28)], \
+        "`first(start, haystack)` passes arguments, it names no fields; `{start:>3}` formats the variable"
+    assert found[("total", (20, 13))] == [(20, 13), (21, 13), (21, 21), (22, 20)], \
+        "a shadowing `let` in the same block, and a name inside a format string"
+    before = run("rust", REAL_SHAPES, tmp_path / "before")
+    assert before == "12   1 {literal}\nSome(2)\n"
+    assert run("rust", rename(REAL_SHAPES, "rust"), tmp_path / "after") == before
