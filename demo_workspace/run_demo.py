@@ -40,11 +40,11 @@ def main() -> int:
         git("add", "-A", cwd=repo)
         git("commit", "-q", "-m", "Fernhill irrigation controller and dashboard", cwd=repo)
 
-        print("Training on the Fernhill repository (a small team, so the standard library of this Python lends "
-              "general naming context at a lower weight) ...")
+        print("Training on the Fernhill repository: a small team, so the standard library of this Python lends "
+              "general naming context at a lower weight, and the team asks for up to 3 flags per 1,000 lines ...")
         started = time.monotonic()
-        show("cognomen train --reproducible --background stdlib",
-             run("train", "--quiet", "--reproducible", "--background", "stdlib", cwd=repo))
+        show("cognomen train --reproducible --background stdlib --flag-budget 3",
+             run("train", "--quiet", "--reproducible", "--background", "stdlib", "--flag-budget", "3", cwd=repo))
         print(f"(took {time.monotonic() - started:.1f} s)")
 
         show("cognomen check fernhill/*.py  (odd names already in the repository)",
@@ -54,7 +54,8 @@ def main() -> int:
 
         git("apply", str(HERE / "changes" / "odd-names.patch"), cwd=repo)
         review = run("review", cwd=repo)
-        show("cognomen review  (a prepared change adds dry_readings, wettest_zone and busiest_valve)", review)
+        show("cognomen review  (a prepared change plants three odd names: the average moisture stored in `flag`, "
+             "the dry readings collected in `schedule`, and a valve called `zone`)", review)
         print(f"review exit code: {review.returncode} (1: the change introduced odd names)")
     return 0
 

@@ -75,7 +75,8 @@ def demo_copy(tmp_path_factory):
     git(target, "init", "-q", "-b", "main")
     git(target, "add", "-A")
     git(target, "commit", "-q", "-m", "Fernhill controller and dashboard")
-    run_cli("train", "--quiet", "--reproducible", "--background", "stdlib", str(target), check=True)
+    run_cli("train", "--quiet", "--reproducible", "--background", "stdlib", "--flag-budget", "3", str(target),
+            check=True)
     return target
 
 
