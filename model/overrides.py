@@ -19,19 +19,22 @@ def inherited_from(owner: str, method: str, facts: dict, classes: dict[str, dict
     own_classes = facts.get("classes", {})
     own_methods = facts.get("methods", {})
     imports = facts.get("imports", {})
-    pending = list(own_classes.get(owner, classes.get(owner, {}).get("bases", [])))
+    pending = [(base, owner) for base in own_classes.get(owner, classes.get(owner, {}).get("bases", []))]
     seen = {owner}
     while pending:
-        base = pending.pop()
+        base, subclass = pending.pop()
         simple = base.rsplit(".", 1)[-1]
-        if simple in seen:
+        if base in seen:
             continue
-        seen.add(simple)
-        if simple in own_classes or simple in classes:
+        seen.add(base)
+        # `class Handler(logging.Handler)`: a base named like its subclass is another module's class.
+        local = simple != subclass or "." not in base
+        if local and (simple in own_classes or simple in classes):
             methods = own_methods.get(simple) if simple in own_classes else classes[simple].get("methods", [])
             if method in methods:
                 return f"{simple}.{method}"
-            pending.extend(own_classes.get(simple) if simple in own_classes else classes[simple].get("bases", []))
+            pending.extend((further, simple) for further in
+                           (own_classes.get(simple) if simple in own_classes else classes[simple].get("bases", [])))
             continue
         if _standard_defines(_origin(base, imports), method):
             return f"{base}.{method}"

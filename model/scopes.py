@@ -113,9 +113,11 @@ def token_variables(tokens: list[Token], language) -> list[Variable]:
         first_line[block_id] = min(first_line.get(block_id, tokens[blocks[block_id].start].line), tokens[index].line)
 
     # Where each name occurs, so a variable's uses are found without scanning its whole block.
+    not_uses = language.not_uses(tokens)
+    declarations = [d for d in declarations if d[0] not in not_uses]
     places: dict[str, list[int]] = {}
     for j, t in enumerate(tokens):
-        if t.kind == NAME:
+        if t.kind == NAME and j not in not_uses:
             places.setdefault(t.text, []).append(j)
     bound_in: dict[int, frozenset[str]] = {}
     variables: list[Variable] = []

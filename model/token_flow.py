@@ -30,7 +30,7 @@ def token_cues(tokens: list[Token], variables, language, parameter_positions: di
             cues.append(f"type:{word}")
         for j in variable.occurrences:
             cues.extend(_occurrence_cues(tokens, j, variable, variable_at, language, function_of))
-        variable.cues = tuple(dict.fromkeys(cue for cue in cues if cue.split(":", 1)[1] != variable.name))
+        variable.cues = tuple(dict.fromkeys(cues))
 
 
 def _occurrence_cues(tokens: list[Token], j: int, variable, variable_at, language, function_of) -> list[str]:
@@ -39,11 +39,11 @@ def _occurrence_cues(tokens: list[Token], j: int, variable, variable_at, languag
     after = tokens[j + 1].text if j + 1 < count else ""
     cues: list[str] = []
     if after in language.assignment_operators and before != "," and (j + 2 < count):
-        cues.extend(right_hand_side(tokens, j + 2, variable, variable_at))
+        cues.extend(right_hand_side(tokens, j + 2, variable, variable_at, language.call_markers))
     loop = _loop_cues(tokens, j, language, variable_at, variable) if j == variable.occurrences[0] else []
     cues.extend(loop)
-    binding = j == variable.occurrences[0]
-    if not loop and not (binding and variable.kind == "parameter") and before in ("(", ",") and after in (")", ","):
+    binding = j == variable.occurrences[0]  # a binding is never an argument, `if let Some(last) = ...` included
+    if not loop and not binding and before in ("(", ",") and after in (")", ","):
         call = _enclosing_call(tokens, j)
         if call is not None:
             callee, position = call
@@ -71,7 +71,8 @@ def _occurrence_cues(tokens: list[Token], j: int, variable, variable_at, languag
     return cues
 
 
-def right_hand_side(tokens: list[Token], k: int, variable, variable_at) -> list[str]:
+def right_hand_side(tokens: list[Token], k: int, variable, variable_at,
+                    call_markers: frozenset[str] = frozenset({"(", "{"})) -> list[str]:
     """Cues of the value bound at k: `open_session(...)`, `self.frames.get(...)`, `config.timeout`, `rows[i]`."""
     count = len(tokens)
     while k < count and tokens[k].text in ("new", "await", "&", "*", "try", "mut"):
@@ -88,7 +89,7 @@ def right_hand_side(tokens: list[Token], k: int, variable, variable_at) -> list[
     last = chain[-1]
     following = tokens[last + 1].text if last + 1 < count else ""
     cues = []
-    if following in ("(", "<", "!", "{"):
+    if following in call_markers:
         cues.append(f"call:{tokens[last].text}")
         if len(chain) > 1:
             receiver = chain[-2]

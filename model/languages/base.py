@@ -38,6 +38,7 @@ class Language:
     loop_words: frozenset[str] = frozenset()
     adding_methods = frozenset({"push", "add", "append", "put", "insert", "push_back", "Add", "offer"})
     type_position = ""
+    call_markers = frozenset({"(", "{"})  # after a name, what makes it a call (or a constructed literal)
     collection_types = frozenset({"List", "ArrayList", "LinkedList", "Set", "HashSet", "Collection", "Iterable",
                                   "Vec", "VecDeque", "Array", "ReadonlyArray", "IEnumerable", "IList", "ICollection",
                                   "vector", "Sequence", "Stream", "Iterator", "Slice"})
@@ -118,6 +119,10 @@ class Language:
                 break
             j -= 1
         return range(j + 1, brace)
+
+    def not_uses(self, tokens: list[Token]) -> frozenset[int]:
+        """Token indices that never bind or use a variable, whatever their text (a type annotation's names)."""
+        return frozenset()
 
     def visible_from(self, tokens: list[Token], index: int, body: int) -> int:
         """Token index from which the name bound at `index` refers to it; `body` is its block's "{".

@@ -24,11 +24,12 @@ class C(TypedLanguage):
     def lex(self, text: str, keep_comments: bool = False, raw: bool = False) -> list[Token]:
         return join_arrows(super().lex(text, keep_comments, raw))
 
-    def find_variables(self, text: str, tokens: list[Token]) -> list:
+    def read(self, text: str, tokens: list[Token]) -> tuple[list, dict]:
         # A macro's body may use a local by name (`#define op (*_op)` inside a function): those uses are
         # not tokens of the code, so no rename could reach them and such a variable is left alone.
         hidden = macro_names(text)
-        return [v for v in super().find_variables(text, tokens) if v.name not in hidden]
+        variables, facts = super().read(text, tokens)
+        return [v for v in variables if v.name not in hidden], facts
 
 
 class CPlusPlus(C):

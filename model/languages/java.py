@@ -18,6 +18,7 @@ class TypedLanguage(Language):
     declaration_followers = frozenset({"=", ";", ":"})  # what may follow the declared name
     type_position = "before"
     loop_words = frozenset({":"})
+    call_markers = frozenset({"(", "{", "<"})  # `new ArrayList<>(items)`
 
     type_punctuation = TYPE_PUNCTUATION  # what may stand between a type's words (`std::string *`)
 

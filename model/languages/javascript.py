@@ -124,17 +124,9 @@ class TypeScript(JavaScript):
     generated_suffixes = (".generated.ts", ".d.ts")
     type_position = "colon"
 
-    def find_variables(self, text: str, tokens: list[Token]) -> list:
+    def not_uses(self, tokens: list[Token]) -> frozenset[int]:
         # A type annotation names types, never variables: `(number: number)`, `(checks: checks.Check[])`.
-        types = type_positions(tokens)
-        found = []
-        for variable in super().find_variables(text, tokens):
-            if variable.occurrences[0] in types:
-                continue
-            variable.occurrences = [i for i in variable.occurrences if i not in types]
-            variable.shorthand = tuple(i for i in variable.shorthand if i not in types)
-            found.append(variable)
-        return found
+        return frozenset(type_positions(tokens))
 
 
 def type_positions(tokens: list[Token]) -> set[int]:

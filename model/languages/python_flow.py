@@ -40,7 +40,7 @@ def python_cues(tree: ast.AST, variable_at: dict[tuple[int, int], Variable], col
         return None
 
     def add(variable: Variable | None, kind: str, word: str, source: ast.AST | None = None) -> None:
-        if variable is None or not word or word == variable.name or of(source) is variable:
+        if variable is None or not word or of(source) is variable:
             return
         cues.setdefault(id(variable), []).append(f"{kind}:{word}")
 

@@ -28,6 +28,7 @@ class Rust(Language):
     member_access = frozenset({".", "::"})
     loop_words = frozenset({"in"})
     type_position = "colon"
+    call_markers = frozenset({"(", "{", "!"})  # `vec![...]`
     scoped_headers = frozenset({"for", "while", "if"})
 
     def declarations(self, tokens: list[Token], i: int) -> list[int]:

@@ -68,3 +68,11 @@ def test_interpolated_strings_and_argument_labels_worked_by_hand():
     renamed = rename(INTERPOLATED, "csharp", {"timeout": "limit", "count": "total"})
     assert "        Send(timeout: limit, retries: total);" in renamed
     assert '$"{typeString} x{total,4:N0} in {obType.Namespace} {{literal}}" + $@"\n{limit}";' in renamed
+
+
+def test_flow_cues_worked_by_hand():
+    from cognomen.model.corpus import analyse
+    cues = {v.name: set(v.cues) for v in analyse(SOURCE, "Meter.cs", "csharp").variables}
+    assert {"parameter:Meter#1", "type:many int"} <= cues["rest"], "`params int[] rest`"
+    assert "keyword:timeout" in cues["sum"], "a named argument, `timeout: sum`"
+    assert "call:Options" in cues["options"] and "call:Send" in cues["last"]

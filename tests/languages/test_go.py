@@ -105,3 +105,13 @@ def test_a_package_named_like_a_variable_stays_the_package():
     renamed = rename(SHADOWED_PACKAGES, "go", {"url": "address", "net": "network"})
     assert "func canonicalAddr(address *url.URL) string {\n\taddr := address.Hostname()" in renamed
     assert "if _, network, err := net.ParseCIDR(host); err == nil {\n\t\t\tp.AddNetwork(network, zone)" in renamed
+
+
+def test_flow_cues_worked_by_hand():
+    cues = {v.name: set(v.cues) for v in analyse(SOURCE, "plan.go", "go").variables}
+    assert {"parameter:Plan#0", "type:Reader", "argument:Wrap#0"} <= cues["r"], "`r io.Reader` passed to Wrap"
+    assert "type:many string" in cues["zones"] and "holds:zone" in cues["zones"], "`zones ...string`, ranged over"
+    assert "iterated:zones" in cues["zone"] and "key_of:zones" in cues["index"]
+    assert {"keyword:Low"} <= cues["low"] and "keyword:Count" in cues["count"], "composite-literal keys"
+    assert {"call:Config", "receiver:v1"} <= cues["cfg"]
+    assert not cues["n"] and not cues["ok"], "`n, ok := lookup(...)` gives neither the call's result alone"

@@ -124,3 +124,14 @@ def test_real_shapes_worked_by_hand(tmp_path):
     before = run("java", REAL_SHAPES, tmp_path / "before")
     assert before.strip() == "6"
     assert run("java", rename(REAL_SHAPES, "java"), tmp_path / "after") == before
+
+
+def test_flow_cues_worked_by_hand():
+    from cognomen.model.corpus import analyse
+    cues = {v.name: set(v.cues) for v in analyse(PROGRAM, "Snippet.java", "java").variables}
+    assert {"parameter:total#1", "holds:amount"} <= cues["amounts"]
+    assert {"type:int", "iterated:amounts"} <= cues["amount"]
+    assert {"type:many String", "parameter:describe#0"} <= cues["items"], "`List<String> items`"
+    assert {"type:many String", "call:ArrayList"} <= cues["sorted"], "`new ArrayList<>(items)`"
+    assert {"call:get", "receiver:sorted"} <= cues["first"]
+    assert {"type:Snippet", "call:Snippet"} <= cues["counter"]

@@ -182,3 +182,48 @@ def test_renaming_every_local_keeps_the_program_working(tmp_path):
     after = rename(PROGRAM, "python", renames)
     assert "dict(total=total_renamed," in after, "a keyword argument's name is not a use"
     assert run("python", after, tmp_path / "after") == before
+
+
+FLOW = '''\
+import os
+
+
+def open_session(settings, frames, rows):
+    session = create_session(settings.url, timeout=settings.timeout)
+    frame = frames.get(settings.key)
+    row = rows[0]
+    cmd = settings.args.get("cmd")
+    home = os.environ.get("HOME")
+    retries = settings.retries
+    users = []
+    for user in session.users:
+        users.append(user)
+    send(session, frame, row)
+    settings.home = home
+    return users
+'''
+
+
+def test_flow_cues_worked_by_hand():
+    from cognomen.model.corpus import analyse
+    cues = {v.name: set(v.cues) for v in analyse(FLOW, "flow.py", "python").variables}
+    assert cues["session"] >= {"call:create_session", "argument:send#0"}
+    assert cues["frame"] >= {"call:get", "receiver:frames", "argument:send#1"}
+    assert "receiver:rows" in cues["row"], "an item of `rows`"
+    assert "key:cmd" in cues["cmd"] and "key:HOME" in cues["home"], "a string key names the value it reads"
+    assert "store:home" in cues["home"], "`settings.home = home`"
+    assert "attribute:retries" in cues["retries"]
+    assert "iterated:users" in cues["user"] and "added_to:users" in cues["user"]
+    assert {"holds:user", "returned:open_session"} <= cues["users"]
+    assert {"parameter:open_session#0", "parameter:open_session#1"} <= cues["settings"] | cues["frames"]
+    # Never from the variable's own occurrences: `timeout=settings.timeout` names the keyword, not settings.
+    assert "keyword:timeout" not in cues["settings"]
+
+
+def test_a_constructors_parameters_are_indexed_under_its_class():
+    from cognomen.model.corpus import analyse
+    source = analyse("class Meter:\n    def __init__(self, port, scale=1):\n        self.port = port\n\n"
+                     "def make(device):\n    return Meter(device)\n", "meter.py", "python")
+    cues = {v.name: set(v.cues) for v in source.variables}
+    assert "parameter:Meter#0" in cues["port"] and "store:port" in cues["port"]
+    assert "argument:Meter#0" in cues["device"], "callers write `Meter(...)`: the cross cue meets the parameter"

@@ -116,3 +116,16 @@ def test_real_shapes_worked_by_hand(tmp_path):
     before = run("rust", REAL_SHAPES, tmp_path / "before")
     assert before == "12   1 {literal}\nSome(2)\n"
     assert run("rust", rename(REAL_SHAPES, "rust"), tmp_path / "after") == before
+
+
+def test_flow_cues_worked_by_hand():
+    from cognomen.model.corpus import analyse
+    cues = {}
+    for variable in analyse(PROGRAM, "snippet.rs", "rust").variables:
+        cues.setdefault((variable.name, variable.function), set()).update(variable.cues)
+    assert {"parameter:total#0", "type:many Reading"} <= cues[("readings", "total")], "`&mut Vec<Reading>`"
+    assert "type:many i64" in cues[("doubled", "total")]
+    assert {"call:first", "receiver:doubled"} <= cues[("first", "total")]
+    assert "keyword:level" in cues[("extra", "make")], "`Reading { zone, level: extra }`"
+    assert "call:total" in cues[("found", "main")]
+    assert not any(cue.startswith("argument:Some") for cue in cues[("last", "main")]), "a pattern is no argument"

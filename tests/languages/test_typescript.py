@@ -100,3 +100,13 @@ def test_zod_shapes_worked_by_hand():
     renamed = rename(ZOD_SHAPES, "typescript", {"final": "target", "message": "note"})
     assert "  target.value = { value: target.value, async: params?.async };" in renamed
     assert "typeof note === \"string\" ? note : note?.message }" in renamed
+
+
+def test_flow_cues_worked_by_hand():
+    cues = {v.name: set(v.cues) for v in analyse(SOURCE, "meter.ts", "typescript").variables}
+    assert {"parameter:describe#1", "type:number"} <= cues["third"]
+    assert "type:many string" in cues["args"], "`...args: string[]`"
+    assert {"parameter:read#0", "type:Sensor"} <= cues["sensor"]
+    assert "keyword:gain" in cues["factor"], "`{ offset, gain: factor }` binds what `gain` holds"
+    assert "returned:read" in cues["reading"]
+    assert not any(cue.startswith("call:") for cue in cues["value"]), "`sensor!.value` is no call"

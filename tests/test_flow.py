@@ -1,0 +1,73 @@
+"""Name flow: the names cues imply, the repository index, and what it lets through (hand-worked)."""
+
+from cognomen.model.flow import (FileFlow, FlowIndex, FlowView, build_index, describe, implied_names, plural,
+                                 safe_key, singular, variable_flow)
+from cognomen.model.scopes import Variable
+
+
+def test_implied_names():
+    assert implied_names("call:load_user_profile", "snake") == ["user_profile", "profile"]
+    assert implied_names("call:openSession", "camel") == ["session"]
+    assert implied_names("receiver:frames", "snake") == ["frame"]
+    assert implied_names("receiver:cache", "snake") == [], "only a plural container names its items"
+    assert implied_names("iterated:users", "camel") == ["user"]
+    assert implied_names("holds:reading", "snake") == ["readings"]
+    assert implied_names("type:many Session", "snake") == ["sessions"]
+    assert implied_names("returned:get_timeout", "snake") == ["timeout"]
+    assert implied_names("keyword:max_retries", "snake") == ["max_retries", "retries"]
+    assert implied_names("argument:send#0", "snake") == [], "an argument's name comes from the index, not its word"
+
+
+# Common practice: English plurals as most code writes them.
+def test_singular_and_plural():
+    for one, many in (("user", "users"), ("entry", "entries"), ("box", "boxes"), ("batch", "batches"),
+                      ("address", "addresses")):
+        assert plural(one) == many and singular(many) == one
+
+
+def test_a_string_key_counts_only_when_made_of_the_teams_words():
+    team = frozenset({"max", "retries", "home", "secret", "value"})
+    assert safe_key("max_retries", team) and safe_key("HOME", team)
+    assert not safe_key("zq_SECRET_7f3a9c_value", team), "planted secret: `zq` is no word of the team's"
+    assert not safe_key("kq81Lz0ZZy7", team)
+
+
+def test_the_index_keeps_secret_keys_out():
+    variables = [Variable("limit", "local", [0], 1, 1, cues=("key:max_retries",)),
+                 Variable("token", "local", [0], 1, 1, cues=("key:zq_SECRET_7f3a9c_value",))]
+
+    class Source:
+        path, tokens = "app.py", [type("T", (), {"line": 1})()]
+
+    Source.variables = variables
+    index = build_index([Source], frozenset(), frozenset({"max", "retries"}), 0.3)
+    assert "key:max_retries" in index.given and not any("zq" in cue for cue in index.given)
+
+
+def test_a_parameter_hears_what_callers_pass_and_an_argument_the_parameters_name():
+    index = FlowIndex()
+    for name in ("invoice", "invoice", "bill"):
+        index.add("argument:send#0", name)
+    parameter = Variable("x", "parameter", [0], 1, 1, cues=("parameter:send#0",))
+    flow = variable_flow(parameter, FlowView(index), "snake", lambda name: True)
+    assert flow.candidates()[0] == "invoice"
+    reason, cue = flow.reason("invoice")
+    assert cue == "argument:send#0" and "callers pass `invoice`" in reason
+    index.add("parameter:send#0", "invoice")  # `def send(invoice)`
+    argument = Variable("y", "local", [0], 1, 1, cues=("argument:send#0",))
+    flow = variable_flow(argument, FlowView(index), "snake", lambda name: True)
+    assert flow.features("invoice")[0] > flow.features("bill")[0]
+
+
+def test_a_variable_never_backs_its_own_name():
+    index = FlowIndex()
+    index.add("call:average_moisture", "flag")  # the variable itself, counted at training
+    own = Variable("flag", "local", [0], 1, 1, cues=("call:average_moisture",))
+    flow = variable_flow(own, FlowView(index, current=FileFlow()), "snake", lambda name: True, weight=1.0)
+    assert flow.features("flag")[0] == 0.0 and "flag" not in flow.candidates()
+    assert "moisture" in flow.candidates(), "the callee still implies a name"
+
+
+def test_evidence_reads_as_a_sentence():
+    assert describe("receiver", "frames", "frame", 12) == "values from `frames` are called `frame` in 12 places"
+    assert describe("keyword", "timeout", "timeout", 0) == "it is passed as `timeout=`"
