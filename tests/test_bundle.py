@@ -73,17 +73,25 @@ def test_missing_model_message(tmp_path):
 def test_secrets_never_reach_the_bundle(tmp_path):
     secret_string = "zq-planted-literal-7f3a9c"
     secret_key = "AKIAFAKE0PLANTED0KEY0"
+    # Planted secrets in key positions, where a string key may name a value: they look like
+    # identifiers, but they are not made of the team's words, so they never become cues.
+    key_secrets = ("zq_SECRET_7f3a9c_value", "kq81Lz0ZZy7")
     repo = tmp_path / "repo"
     repo.mkdir()
     for index in range(6):
         (repo / f"m{index}.py").write_text(
-            f"def load(path):\n    token = '{secret_string}'  # key {secret_key}\n"
-            f"    data = open(path).read()\n    return data + token\n")
+            f"import os\n\n\ndef load(path, settings):\n    token = '{secret_string}'  # key {secret_key}\n"
+            f"    data = open(path).read()\n    value = settings[\"{key_secrets[0]}\"]\n"
+            f"    home = os.environ.get(\"{key_secrets[1]}\")\n    max_retries = settings[\"max_retries\"]\n"
+            f"    return data + token + value + home + max_retries\n")
     store = tmp_path / "store"
     run_cli("--model-dir", str(store), "train", "--quiet", str(repo), check=True)
+    planted = [secret_string, secret_key, *key_secrets]
     found = [p for p in store.rglob("*") if p.is_file() and "cache" not in p.parts
-             and (secret_string.encode() in p.read_bytes() or secret_key.encode() in p.read_bytes())]
+             and any(secret.encode() in p.read_bytes() for secret in planted)]
     assert found == []
+    flow = next(store.rglob("flow.json")).read_text()
+    assert "key:max_retries" in flow, "a key made of the team's own words does become a cue"
     cached = [p for p in store.rglob("*") if p.is_file() and secret_key.encode() in p.read_bytes()]
     assert cached == [], "comments never reach the cache either"
 
