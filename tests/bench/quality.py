@@ -47,7 +47,8 @@ def corpora() -> list[tuple[str, Path, Settings]]:
 
 ABLATIONS = {
     "full model": {},
-    "no embeddings in ranking": {"embedding_weight": 0.0},
+    "no name flow": {"use_flow": False},
+    "with embeddings in ranking and detection": {"embedding_weight": 1.0},
     "no sub-token overlap in ranking": {"lexical_weight": 0.0},
     "no context counts in ranking": {"count_weight": 0.0},
     "no learned detector (raw gap)": {"use_detector": False},
