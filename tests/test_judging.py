@@ -130,3 +130,28 @@ def test_three_thousand_lines_get_a_threshold(stdlib_files):
     trained = train(Corpus(chosen, {}), TrainSettings(epochs=1, workers=1))
     assert math.isfinite(trained.thresholds["python"])
     assert trained.languages["python"]["lines"] >= 3_000
+
+
+def test_evidence_never_cites_the_variables_own_place(stdlib_scorer):
+    # A file the model learned from, with a variable renamed after training (the model has not yet
+    # retrained): the old name's places in that file back the old name, but never at the variable itself.
+    text = (STDLIB / "textwrap.py").read_text(encoding="utf-8")
+    source = analyse(text, "textwrap.py", "python")
+    for finding in check_source(stdlib_scorer, source, threshold=-math.inf, flagged_only=False)[:200]:
+        for suggestion in finding.suggestions:
+            for path, line in suggestion.evidence:
+                assert not (path == "textwrap.py" and finding.variable.scope_start <= line
+                            <= finding.variable.scope_end), (finding.name, suggestion.name, line)
+
+
+def test_repeats_of_one_pattern_in_a_file_are_reported_once():
+    from cognomen.model.findings import Finding
+    from cognomen.model.scoring import Suggestion
+    from cognomen.server.commands.check import grouped
+
+    def finding(line, name, first):
+        return Finding("a.go", line, 1, line, 2, name, 5.0, 1.0, True, [Suggestion(first, 1.0)], None)
+
+    found = grouped([finding(3, "r", "reader"), finding(9, "r", "reader"), finding(12, "r", "req"),
+                     finding(20, "d", "decoder")])
+    assert [(f.line, [r.line for r in repeats]) for f, repeats in found] == [(3, [9]), (12, []), (20, [])]
