@@ -12,7 +12,8 @@ import numpy as np
 from .corpus import Corpus
 from .measures import label
 from .reranking import flow_names
-from .scoring import IGNORED_NAMES, Scorer, allowed_mask, detection_features, name_fit, rank_in_batches, token_ids
+from .scoring import (IGNORED_NAMES, Scorer, allowed_mask, detection_features, flaggable, name_fit, rank_in_batches,
+                      token_ids)
 from .training import TrainSettings, auc, file_local_names, rename, seed_misname, split_files, train
 
 SCORERS = ("model", "context counts", "most frequent")
@@ -141,7 +142,7 @@ def _tally(tallies: dict[str, Tally], scorer: Scorer, ranking, allowed, name, va
         value = -1e9 if oddness is None else oddness
         (tallies[scorer_name].clean if clean else tallies[scorer_name].seeded).append(value)
     if math.isfinite(limit):
-        over = -1e9 if model_oddness is None else model_oddness - limit
+        over = -1e9 if model_oddness is None or not flaggable(fit, name) else model_oddness - limit
         (tallies["model"].clean_over if clean else tallies["model"].seeded_over).append(over)
     if truth is None:
         return

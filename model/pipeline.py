@@ -189,6 +189,9 @@ def train_repository(path: Path, store: Path, settings: TrainSettings, policy: P
         "background": list(background or []),
         "skipped": corpus.skipped,
         "reuse": trained.reuse,
+        # Every stage, and the whole run up to writing the model (the manifest is written before it ends).
+        "stage_seconds": {"corpus": round(corpus_seconds, 2), **trained.seconds,
+                          "until_written": round(time.monotonic() - started, 2)},
     }
     promoted, reason = promotion_check(public(trained.quality), current_manifest.get("quality", {}) if current_manifest else {}, policy)
     manifest["promotion_check"] = reason

@@ -20,7 +20,7 @@ from pathlib import Path
 import numpy as np
 
 REUSE_SHARE = 0.05
-_FORMAT = 1
+_FORMAT = 2
 
 
 @dataclass
@@ -68,7 +68,7 @@ class ExampleStore:
                 rows, truths = stored["shortlist_rows"], stored["shortlist_truth"]
                 bounds = np.concatenate([[0], np.cumsum(sizes)]).astype(np.int64)
                 shortlists = [(rows[a:b], truths[a:b]) for a, b in zip(bounds[:-1], bounds[1:])]
-                found = FileExamples(stored["features"], stored["labels"], shortlists,
+                found = FileExamples(stored["features"], stored["labels"], stored["flaggable"], shortlists,
                                      stored["recovered_at"].tolist())
         except (OSError, KeyError, ValueError):
             return None
@@ -84,7 +84,7 @@ class ExampleStore:
         try:
             self.directory.mkdir(parents=True, exist_ok=True)
             temporary = self.directory / f".{source.digest}.{os.getpid()}.npz"
-            np.savez(temporary, features=examples.features, labels=examples.labels,
+            np.savez(temporary, features=examples.features, labels=examples.labels, flaggable=examples.flaggable,
                      shortlist_sizes=np.array([len(rows) for rows, _ in examples.shortlists], dtype=np.int64),
                      shortlist_rows=np.vstack([rows for rows, _ in examples.shortlists]) if examples.shortlists
                      else np.zeros((0, width)),

@@ -173,6 +173,7 @@ class Judgement:
     suggestions: list[Suggestion]
     features: np.ndarray | None = None
     dictated: str = ""  # why the name is never judged
+    flaggable: bool = True  # whether the name can be flagged at all (see `flaggable`)
 
 
 # --- contexts ---------------------------------------------------------------------------
@@ -444,6 +445,18 @@ class NameFit:
     parts_known: float = 1.0
 
 
+# Names this short are the language's or the team's shorthand (`i`, `r`, `ok`): which one fits
+# takes more than the model sees, so they get suggestions but are never flagged.
+MIN_FLAGGED_LENGTH = 3
+
+
+def flaggable(fit: NameFit | None, name: str) -> bool:
+    """Whether a name may be flagged: one the team uses elsewhere (so it means something to the
+    team that this use can contradict), and longer than shorthand. A name the team has never
+    used for a variable is a new word, judged by its parts for suggestions but never flagged."""
+    return fit is not None and fit.known and len(name.strip("_")) >= MIN_FLAGGED_LENGTH
+
+
 def name_fit(tables: NameTables, ranking: Ranking, name: str, weights: Weights | None = None) -> NameFit | None:
     """Where a name stands among the candidates; unseen names are judged by their sub-tokens."""
     weights = weights or Weights()
@@ -652,7 +665,7 @@ class Scorer:
         suggestions = []
         if suggest_above is None or (oddness is not None and oddness > suggest_above):
             suggestions = self.suggestions(ranking, allowed, limit, variable.bound_names, variable.name)
-        return Judgement(variable, oddness, suggestions, features)
+        return Judgement(variable, oddness, suggestions, features, flaggable=flaggable(fit, variable.name))
 
     def suggestions(self, ranking: Ranking, allowed: np.ndarray, limit: int,
                     bound: frozenset[str] = frozenset(), current: str = "") -> list[Suggestion]:
@@ -718,7 +731,8 @@ class Scorer:
 
     def is_flagged(self, judgement: Judgement, limit: float) -> bool:
         """Whether a judgement passes a threshold, with a name to offer instead."""
-        return judgement.oddness is not None and judgement.oddness > limit and bool(judgement.suggestions)
+        return judgement.flaggable and judgement.oddness is not None and judgement.oddness > limit and \
+            bool(judgement.suggestions)
 
 
 def _is_own(place: tuple[str, int], own: tuple[str, int, int] | None) -> bool:

@@ -23,7 +23,7 @@ from .reuse import ExampleStore, PreviousVectors
 from .reranking import TABLE_FEATURES, Reranker, fit_reranker, shortlist_features
 from .scopes import Variable
 from .suppression import is_kept
-from .scoring import (IGNORED_NAMES, Detector, NameTables, Weights, allowed_mask, detection_features,
+from .scoring import (IGNORED_NAMES, Detector, NameTables, Weights, allowed_mask, detection_features, flaggable,
                       FEATURE_NAMES, fit_detector, name_fit, rank_in_batches)
 from .vocabulary import Vocabulary, build_vocabulary, count_tokens
 
@@ -219,6 +219,7 @@ class Examples:
 
     features: list[np.ndarray] = field(default_factory=list)
     labels: list[int] = field(default_factory=list)
+    flaggable: list[bool] = field(default_factory=list)
     example_files: list[int] = field(default_factory=list)  # which sampled file each example came from
     recovered_at: list[int] = field(default_factory=list)  # rank of the true name, per seeded misname
     shortlists: list[tuple[np.ndarray, np.ndarray]] = field(default_factory=list)  # re-ranking rows and labels
@@ -263,6 +264,7 @@ class FileExamples:
 
     features: np.ndarray  # (n, len(FEATURE_NAMES))
     labels: np.ndarray  # (n,) 0 for a real name, 1 for a seeded misname
+    flaggable: np.ndarray  # (n,) whether the name could be flagged at all (scoring.flaggable)
     shortlists: list[tuple[np.ndarray, np.ndarray]]  # re-ranking rows and which row is the true name
     recovered_at: list[int]  # rank of the true name by the combined score, per shortlist
 
@@ -272,7 +274,7 @@ def file_examples(tables: NameTables, source: SourceFile, share: FileCounts, see
     """A file's real variables and one seeded misname each, scored without the file's own share of the counts.
     The seeded names depend on the file alone (and the seed), so a file's examples can be kept for reuse."""
     rng = random.Random(f"{seed}:{source.path}")
-    features, labels, shortlists, recovered = [], [], [], []
+    features, labels, shortlists, recovered, usable = [], [], [], [], []
     judged = judged_variables(tables, source)
     if judged:
         holdout, ids = forget_file(tables, source, share.weight, share=share)
@@ -285,6 +287,7 @@ def file_examples(tables: NameTables, source: SourceFile, share: FileCounts, see
             if fit is not None:
                 features.append(detection_features(tables, ranking, allowed, fit, variable.name, variable))
                 labels.append(0)
+                usable.append(flaggable(fit, variable.name))
             wrong = seed_misname(source, variable, rng, local_names)
             if wrong is None:
                 continue
@@ -301,8 +304,9 @@ def file_examples(tables: NameTables, source: SourceFile, share: FileCounts, see
             if fit is not None:
                 features.append(detection_features(tables, ranking, allowed, fit, wrong, renamed))
                 labels.append(1)
+                usable.append(flaggable(fit, wrong))
     return FileExamples(np.array(features, dtype=np.float64).reshape(len(features), len(FEATURE_NAMES)),
-                        np.array(labels, dtype=np.int64), shortlists, recovered)
+                        np.array(labels, dtype=np.int64), np.array(usable, dtype=bool), shortlists, recovered)
 
 
 def collect_examples(tables: NameTables, files: list[SourceFile], shares: dict[str, FileCounts], seed: int,
@@ -324,6 +328,7 @@ def collect_examples(tables: NameTables, files: list[SourceFile], shares: dict[s
                 reuse.put(source, found)
         examples.features.extend(found.features)
         examples.labels.extend(found.labels.tolist())
+        examples.flaggable.extend(found.flaggable.tolist())
         examples.example_files.extend([file_number] * len(found.labels))
         examples.shortlists.extend(found.shortlists)
         examples.recovered_at.extend(found.recovered_at)
@@ -451,6 +456,7 @@ def calibrate_model(examples: Examples, corpus: Corpus, settings: TrainSettings,
     thresholds: dict[str, float] = {}
     report: dict[str, dict] = {}
     example_files = np.array(examples.example_files, dtype=np.int64)
+    usable = np.array(examples.flaggable, dtype=bool)
     file_lines = np.array(examples.file_lines, dtype=np.int64)
     file_languages = np.array(examples.file_languages, dtype=object)
     team = np.array(examples.team, dtype=bool)
@@ -463,7 +469,7 @@ def calibrate_model(examples: Examples, corpus: Corpus, settings: TrainSettings,
             continue
         in_language = (file_languages[example_files] == language) & team[example_files] if len(labels) else \
             np.zeros(0, bool)
-        clean = in_language & (labels == 0)
+        clean = in_language & (labels == 0) & usable  # a name that can never be flagged is no false alarm
         if not clean.any() or not (in_language & (labels == 1)).any():
             entry["suggestions_only"] = f"no {language} variables could be scored to calibrate on"
             continue
@@ -477,7 +483,7 @@ def calibrate_model(examples: Examples, corpus: Corpus, settings: TrainSettings,
         flagged_clean += int((oddness[clean] > threshold).sum())
         clean_lines += int(file_lines[sampled_files].sum())
         positives = in_language & (labels == 1)
-        recalled += int((oddness[positives] > threshold).sum())
+        recalled += int((oddness[positives & usable] > threshold).sum())
         seeded += int(positives.sum())
     if len(labels) and 0 < labels.sum() < labels.size:
         quality["detection_auc"] = round(auc(oddness[labels == 1], oddness[labels == 0]), 4)

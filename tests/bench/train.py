@@ -49,7 +49,8 @@ def run(repo: Path, store: Path, *extra: str) -> dict:
         raise SystemExit(f"cognomen train failed ({result.returncode}):\n{result.stderr}")
     newest = max((store / "models").iterdir(), key=lambda d: (d / "manifest.json").stat().st_mtime)
     manifest = json.loads((newest / "manifest.json").read_text())
-    return {"load_average_before": round(load, 2), "wall_seconds": round(wall, 2), "seconds": manifest["seconds"],
+    return {"load_average_before": round(load, 2), "wall_seconds": round(wall, 2),
+            "seconds": manifest.get("stage_seconds", manifest["seconds"]),
             "quality": manifest["quality"], "reuse": manifest.get("reuse", {}), "counts": manifest["counts"]}
 
 
@@ -87,8 +88,9 @@ def main() -> int:
                   f"(difference {difference:+.4f}; target within 0.01)")
     names = cold["seconds"].get("names_and_calibration", 0)
     embeddings = cold["seconds"].get("embeddings", 0)
-    print(f"targets: cold {cold['seconds'].get('total')} s (<= 30), warm {warm['seconds'].get('total')} s (<= 10), "
-          f"names and calibration {names} s against embeddings {embeddings} s (<=)")
+    print(f"targets (end to end, the command's wall time): cold {cold['wall_seconds']} s (<= 30), "
+          f"warm {warm['wall_seconds']} s (<= 10); names and calibration {names} s against embeddings "
+          f"{embeddings} s (<=, cold)")
     save("train", {"cpu": cpu_model(), "cores": os.cpu_count(), "cold": cold, "warm": warm, "from_scratch": fresh})
     return 0
 
