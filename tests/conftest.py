@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+import ast
 import shutil
 import subprocess
 import sys
@@ -86,6 +87,51 @@ def workspace(demo_copy, tmp_path):
     target = tmp_path / "fernhill"
     shutil.copytree(demo_copy, target, symlinks=True)
     return target
+
+
+# The demo's prepared change: it plants odd names the model (trained on the code before it) never saw, the
+# clearest a valve called `zone` at fernhill/valves.py:123:9 (the team calls it `valve`).
+ODD_NAMES_PATCH = DEMO / "changes" / "odd-names.patch"
+
+
+def apply_odd_names(repo: Path, *paths: str) -> None:
+    """Apply the prepared change with git, uncommitted (only its parts for `paths`, when given)."""
+    git(repo, "apply", *(f"--include={path}" for path in paths), str(ODD_NAMES_PATCH))
+
+
+@pytest.fixture(scope="session")
+def patched_demo(demo_copy, tmp_path_factory):
+    """A private copy of the trained demo with the prepared change applied, the review situation: the model is
+    the one trained before the change. Tests only read it; `patched_workspace` is the copy to change."""
+    target = tmp_path_factory.mktemp("patched") / "fernhill"
+    shutil.copytree(demo_copy, target, symlinks=True)
+    apply_odd_names(target)
+    return target
+
+
+@pytest.fixture()
+def patched_workspace(patched_demo, tmp_path):
+    """A private copy of the patched demo per test, free to change."""
+    target = tmp_path / "fernhill"
+    shutil.copytree(patched_demo, target, symlinks=True)
+    return target
+
+
+def variable_places(text: str, name: str, function: str) -> list[tuple[int, int]]:
+    """Every place (1-based line and column) Python's own ast finds the variable `name` in `function`."""
+    tree = ast.parse(text)
+    node = next(n for n in ast.walk(tree) if isinstance(n, ast.FunctionDef) and n.name == function)
+    return sorted((n.lineno, n.col_offset + 1) for n in ast.walk(node) if isinstance(n, ast.Name) and n.id == name)
+
+
+def renamed_by_ast(text: str, name: str, new_name: str, function: str) -> str:
+    """`text` with the variable `name` in `function` renamed at the places Python's ast finds (ASCII lines)."""
+    lines = text.split("\n")
+    for line, column in reversed(variable_places(text, name, function)):
+        row = lines[line - 1]
+        assert row[column - 1:column - 1 + len(name)] == name
+        lines[line - 1] = row[:column - 1] + new_name + row[column - 1 + len(name):]
+    return "\n".join(lines)
 
 
 def git(cwd: Path, *args: str) -> str:

@@ -6,45 +6,51 @@ import re
 from .conftest import run_cli
 
 
-def test_train_summary_and_check_json(demo_copy):
-    result = run_cli("check", "--format", "json", "fernhill/alerts.py", "fernhill/readings.py", cwd=demo_copy)
+def test_train_summary_and_check_json(patched_demo):
+    result = run_cli("check", "--format", "json", "fernhill/valves.py", "fernhill/readings.py", cwd=patched_demo)
     assert result.returncode == 0, result.stderr
     findings = json.loads(result.stdout)["findings"]
     assert {"path", "line", "column", "end_line", "end_column", "name", "score", "threshold",
             "suggestions"} <= set(findings[0])
-    odd = [f for f in findings if f["name"] == "valve"]
-    assert odd, "the deliberately misnamed zone in alerts.py is flagged"
-    assert odd[0]["suggestions"][0]["name"] == "zone"
-    assert all({"path", "line"} == set(e) for e in odd[0]["suggestions"][0]["evidence"])
-    assert odd[0]["line"] == 27 and odd[0]["column"] == 9 and odd[0]["end_column"] == 14
+    odd = [f for f in findings if f["name"] == "zone"]
+    assert odd, "the valve the prepared change calls `zone` is flagged"
+    assert odd[0]["path"] == "fernhill/valves.py" and odd[0]["suggestions"][0]["name"] == "valve"
+    assert (odd[0]["line"], odd[0]["column"], odd[0]["end_line"], odd[0]["end_column"]) == (123, 9, 123, 13)
+    assert odd[0]["score"] > odd[0]["threshold"]
+    evidence = odd[0]["suggestions"][0]["evidence"]
+    assert evidence and all({"path", "line"} == set(e) for e in evidence)
+    for place in evidence:  # each place is a line of the team's code that names a variable `valve`
+        line = (patched_demo / place["path"]).read_text().splitlines()[place["line"] - 1]
+        assert re.search(r"\bvalve\b", line), place
 
 
-def test_check_text_reads_like_a_compiler_message(demo_copy):
-    result = run_cli("check", "fernhill/alerts.py", cwd=demo_copy)
+def test_check_text_reads_like_a_compiler_message(patched_demo):
+    result = run_cli("check", "fernhill/valves.py", cwd=patched_demo)
     assert result.returncode == 0
-    assert "fernhill/alerts.py:27:9: `valve` does not fit how it is used here; the team would call it `zone`" \
+    assert "fernhill/valves.py:123:9: `zone` does not fit how it is used here; the team would call it `valve`" \
         in result.stdout
+    assert result.stdout.splitlines()[-1] == "1 oddly named variable in 1 file"
 
 
-def test_check_a_folder_checks_every_source_file_under_it(demo_copy):
-    one = run_cli("check", "fernhill/alerts.py", cwd=demo_copy)
-    folder = run_cli("check", "fernhill", cwd=demo_copy)
+def test_check_a_folder_checks_every_source_file_under_it(patched_demo):
+    one = run_cli("check", "fernhill/valves.py", cwd=patched_demo)
+    folder = run_cli("check", "fernhill", cwd=patched_demo)
     assert folder.returncode == 0, folder.stderr
-    python_files = sorted(str(p.relative_to(demo_copy)) for p in (demo_copy / "fernhill").rglob("*.py"))
+    python_files = sorted(str(p.relative_to(patched_demo)) for p in (patched_demo / "fernhill").rglob("*.py"))
     assert f"in {len(python_files)} files" in folder.stdout.splitlines()[-1]
     # What a file shows on its own, it shows within its folder.
-    flagged = [line for line in one.stdout.splitlines() if line.startswith("fernhill/alerts.py:")]
+    flagged = [line for line in one.stdout.splitlines() if line.startswith("fernhill/valves.py:")]
     assert flagged and all(line in folder.stdout for line in flagged)
-    missing = run_cli("check", "no/such/folder", cwd=demo_copy)
+    missing = run_cli("check", "no/such/folder", cwd=patched_demo)
     assert missing.returncode == 2 and "no such file or folder" in missing.stderr
 
 
-def test_suggest_many_positions(demo_copy):
-    result = run_cli("suggest", "--format", "json", "fernhill/alerts.py:27:10", "fernhill/alerts.py:1:1",
-                     cwd=demo_copy)
+def test_suggest_many_positions(patched_demo):
+    result = run_cli("suggest", "--format", "json", "fernhill/valves.py:123:10", "fernhill/valves.py:1:1",
+                     cwd=patched_demo)
     assert result.returncode == 0, result.stderr
     first, second = json.loads(result.stdout)["results"]
-    assert first["name"] == "valve" and first["suggestions"][0]["name"] == "zone"
+    assert first["name"] == "zone" and first["suggestions"][0]["name"] == "valve"
     assert second["suggestions"] == [] and "no local variable" in second["reason"]
 
 
@@ -106,7 +112,7 @@ def test_models_lists_the_current_model(demo_copy):
     assert listing["current"] == listing["models"][0]["model_id"]
 
 
-def test_model_dir_before_or_after_any_subcommand(demo_copy, tmp_path):
+def test_model_dir_before_or_after_any_subcommand(patched_demo, tmp_path):
     from cognomen.server.cli import build_parser
 
     parser = build_parser()
@@ -117,9 +123,15 @@ def test_model_dir_before_or_after_any_subcommand(demo_copy, tmp_path):
         assert parser.parse_args([*words, "--model-dir", "after"]).model_dir == "after", name
         assert parser.parse_args(["--model-dir", "before", *words]).model_dir == "before", name
         assert parser.parse_args(words).model_dir is None, name
-    store = demo_copy / ".cognomen"
-    checked = run_cli("check", str(demo_copy / "fernhill/alerts.py"), "--model-dir", str(store), cwd=tmp_path)
-    assert checked.returncode == 0 and "`valve`" in checked.stdout, checked.stderr
+    store = patched_demo / ".cognomen"
+    valves = patched_demo / "fernhill/valves.py"
+    checked = run_cli("check", str(valves), "--model-dir", str(store), cwd=tmp_path)
+    assert checked.returncode == 0 and checked.stdout.endswith(" in 1 file\n"), checked.stderr
+    # The model in that store, not just any: it names the prepared change's `zone` a `valve`.
+    suggested = run_cli("suggest", "--format", "json", f"{valves}:123:9", "--model-dir", str(store), cwd=tmp_path)
+    assert suggested.returncode == 0, suggested.stderr
+    [result] = json.loads(suggested.stdout)["results"]
+    assert result["name"] == "zone" and result["suggestions"][0]["name"] == "valve"
     listed = run_cli("models", "--model-dir", str(store), "--format", "json", cwd=tmp_path)
     assert listed.returncode == 0, listed.stderr
     assert json.loads(listed.stdout)["current"]
@@ -162,18 +174,19 @@ def test_each_measure_has_one_name_in_every_output(demo_copy, tmp_path):
     assert len(set(NAMES.values())) == len(NAMES), "no two measures share a name"
 
 
-def test_check_a_folder_skips_what_training_skips_and_counts_it(workspace):
+def test_check_a_folder_skips_what_training_skips_and_counts_it(patched_workspace):
+    workspace = patched_workspace
     (workspace / "fernhill" / "blob.py").write_bytes(b"\0\1\2binary")
     (workspace / "fernhill" / "packed.py").write_text("DATA = [" + "1, " * 11_000 + "]\n")  # one 33 KB line
     (workspace / "fernhill" / "widget_pb2.py").write_text("def f(value):\n    return value\n")
     result = run_cli("check", "fernhill", cwd=workspace)
     assert result.returncode == 0, result.stderr
     assert "note: skipped 3 files: 1 binary, 1 generated, 1 minified or generated" in result.stdout
-    assert "fernhill/alerts.py:27:9: `valve` does not fit" in result.stdout
+    assert "fernhill/valves.py:123:9: `zone` does not fit" in result.stdout
     as_json = run_cli("check", "--format", "json", "fernhill", cwd=workspace)
     report = json.loads(as_json.stdout)
     assert report["skipped"] == {"binary": 1, "generated": 1, "minified or generated": 1}
-    assert any(f["name"] == "valve" for f in report["findings"])
+    assert ("fernhill/valves.py", 123, "zone") in {(f["path"], f["line"], f["name"]) for f in report["findings"]}
     (workspace / "stray.py").write_bytes(b"\x89PNG\r\n\x1a\n\0\0")
     everything = run_cli("check", ".", cwd=workspace)
     assert everything.returncode == 0 and "2 binary" in everything.stdout, everything.stderr

@@ -10,7 +10,7 @@ from pathlib import Path
 
 import pytest
 
-from .conftest import FIXTURES, ROOT
+from .conftest import FIXTURES, ROOT, renamed_by_ast
 
 NVIM = shutil.which("nvim")
 EMACS = shutil.which("emacs")
@@ -18,26 +18,27 @@ DEBIAN_EGLOT = list(Path("/usr/share/emacs/site-lisp/elpa").glob("eglot-*"))
 
 
 def assert_renamed_in_the_buffer_only(buffer: str, workspace: Path) -> None:
-    """`valve` became `zone` at its binding and its use in the editor's buffer; the file on disk is as it was."""
-    assert "        zone = registry.get(zone_id)" in buffer
-    assert "deficit = zone.target_moisture - moisture" in buffer
-    assert "valve" not in buffer.split("def dry_zone_alerts")[1].split("def stale_sensor_alerts")[0]
-    assert (workspace / "fernhill/alerts.py").read_text().count("valve = registry.get") == 1, \
-        "the file on disk is untouched until the person saves"
+    """`zone` became `valve` in the editor's buffer at every place Python's ast finds the variable, and nowhere
+    else; the file on disk is as it was."""
+    on_disk = (workspace / "fernhill/valves.py").read_text()
+    assert buffer.rstrip("\n") == renamed_by_ast(on_disk, "zone", "valve", "busiest_valve").rstrip("\n")
+    assert "    for valve in bank.open_valves():" in buffer and "            busiest = valve" in buffer
+    assert "    for zone in bank.open_valves():" in on_disk, "the file on disk is untouched until the person saves"
 
 
 @pytest.mark.skipif(NVIM is None, reason="Neovim is not installed (apt-get install -y neovim)")
-def test_neovim_shows_the_hint_and_applies_the_quick_fix(workspace, tmp_path):
+def test_neovim_shows_the_hint_and_applies_the_quick_fix(patched_workspace, tmp_path):
+    workspace = patched_workspace
     out = tmp_path / "buffer.txt"
-    environment = dict(os.environ, COGNOMEN_ROOT=str(workspace), COGNOMEN_FILE=str(workspace / "fernhill/alerts.py"),
+    environment = dict(os.environ, COGNOMEN_ROOT=str(workspace), COGNOMEN_FILE=str(workspace / "fernhill/valves.py"),
                        COGNOMEN_OUT=str(out), COGNOMEN_PYTHON=sys.executable)
     result = subprocess.run([NVIM, "--headless", "-u", "NONE", "-i", "NONE", "-n", "-c",
                              f"luafile {FIXTURES / 'neovim' / 'driver.lua'}"],
                             env=environment, capture_output=True, text=True, timeout=180, stdin=subprocess.DEVNULL)
     lines = out.read_text().splitlines() if out.exists() else []
     assert result.returncode == 0, (lines[:2], result.stderr[-2000:])
-    assert lines[0].startswith("DIAGNOSTIC `valve` does not fit how it is used here")
-    assert lines[1] == "ACTION Rename `valve` to `zone`"
+    assert lines[0].startswith("DIAGNOSTIC `zone` does not fit how it is used here")
+    assert lines[1] == "ACTION Rename `zone` to `valve`"
     assert_renamed_in_the_buffer_only("\n".join(lines[2:]), workspace)
 
 
@@ -50,24 +51,25 @@ def readme_eglot_setup() -> str:
 
 @pytest.mark.skipif(EMACS is None or not DEBIAN_EGLOT,
                     reason="Emacs with eglot is not installed (apt-get install -y emacs-nox elpa-eglot)")
-def test_emacs_eglot_shows_the_hint_and_applies_the_quick_fix(workspace, tmp_path):
+def test_emacs_eglot_shows_the_hint_and_applies_the_quick_fix(patched_workspace, tmp_path):
+    workspace = patched_workspace
     setup = tmp_path / "init.el"
     setup.write_text(readme_eglot_setup())
     out = tmp_path / "buffer.txt"
     # The README says cognomen must be on Emacs's PATH: put this installation's scripts there.
     path = os.pathsep.join([str(Path(sys.executable).parent), os.environ.get("PATH", "")])
     environment = dict(os.environ, PATH=path, HOME=str(tmp_path), COGNOMEN_SETUP=str(setup),
-                       COGNOMEN_FILE=str(workspace / "fernhill/alerts.py"), COGNOMEN_OUT=str(out))
+                       COGNOMEN_FILE=str(workspace / "fernhill/valves.py"), COGNOMEN_OUT=str(out))
     result = subprocess.run([EMACS, "--batch", "-Q", "-l", str(FIXTURES / "emacs" / "driver.el")],
                             env=environment, cwd=workspace, capture_output=True, text=True, timeout=180,
                             input="\n")  # RET at the code-action menu takes the default (preferred) fix
     lines = out.read_text().splitlines() if out.exists() else []
     assert result.returncode == 0, (lines[:3], result.stderr[-3000:])
-    assert lines[0].startswith("DIAGNOSTIC cognomen [name-does-not-fit]: `valve` does not fit how it is used here")
+    assert lines[0].startswith("DIAGNOSTIC cognomen [name-does-not-fit]: `zone` does not fit how it is used here")
     # eglot 1.9 without markdown-mode declares plain text only: the hover reads plainly.
-    assert lines[1].startswith("HOVER plaintext valve does not fit how it is used here (oddness ")
+    assert lines[1].startswith("HOVER plaintext zone does not fit how it is used here (oddness ")
     assert "`" not in lines[1]
-    assert lines[2] == "ACTION Rename `valve` to `zone`"
+    assert lines[2] == "ACTION Rename `zone` to `valve`"
     assert_renamed_in_the_buffer_only("\n".join(lines[3:]), workspace)
 
 
