@@ -29,7 +29,10 @@ from __future__ import annotations
 import math
 import re
 from collections import Counter
+from collections.abc import Mapping
 from dataclasses import dataclass, field
+
+import numpy as np
 
 from .tokens import join_subtokens, split_identifier
 
@@ -47,11 +50,44 @@ _NOTHING = frozenset({"self", "cls", "this", "super", "it", "x", "_", "value", "
 _PLURAL = re.compile(r"(?:[^s]s|ies|xes|ches|shes|sses)$")
 
 
+class CueTable(Mapping):
+    """The index's counts as stored: the names at each cue in three arrays, a cue's Counter built
+    only when a file asks for it (a model learned from a million lines holds a few hundred thousand
+    cues; a file looks at a few hundred)."""
+
+    def __init__(self, cues: list[str], names: list[str], indptr, name_ids, counts):
+        self.position = {cue: number for number, cue in enumerate(cues)}
+        self.cues, self.names = cues, names
+        self.indptr, self.name_ids, self.counts = indptr, name_ids, counts
+        self.built: dict[str, Counter] = {}
+
+    def __getitem__(self, cue: str) -> Counter:
+        found = self.built.get(cue)
+        if found is None:
+            number = self.position[cue]
+            start, end = int(self.indptr[number]), int(self.indptr[number + 1])
+            found = Counter(dict(zip((self.names[i] for i in self.name_ids[start:end].tolist()),
+                                     self.counts[start:end].tolist())))
+            if len(self.built) > 50_000:
+                self.built.clear()
+            self.built[cue] = found
+        return found
+
+    def __contains__(self, cue) -> bool:
+        return cue in self.position
+
+    def __iter__(self):
+        return iter(self.cues)
+
+    def __len__(self) -> int:
+        return len(self.cues)
+
+
 @dataclass
 class FlowIndex:
     """For each cue, the names the team gives there (counts), and a few places for each."""
 
-    given: dict[str, Counter] = field(default_factory=dict)
+    given: Mapping = field(default_factory=dict)  # cue -> Counter of names (a CueTable once stored)
     places: dict[tuple[str, str], list[tuple[str, int]]] = field(default_factory=dict)
     _ranked: dict[str, tuple[list[tuple[str, float]], float]] = field(default_factory=dict, repr=False)
     _name_totals: Counter | None = field(default=None, repr=False)
@@ -61,8 +97,13 @@ class FlowIndex:
         """How often a name is given at any cue, as a share of every name given (smoothed)."""
         if self._name_totals is None:
             totals: Counter = Counter()
-            for counter in self.given.values():
-                totals.update(counter)
+            if isinstance(self.given, CueTable):
+                sums = np.bincount(np.asarray(self.given.name_ids), weights=np.asarray(self.given.counts),
+                                   minlength=len(self.given.names))
+                totals = Counter(dict(zip(self.given.names, sums.tolist())))
+            else:
+                for counter in self.given.values():
+                    totals.update(counter)
             self._name_totals = totals
             self._grand_total = float(sum(totals.values()))
         return (self._name_totals.get(name, 0.0) + 1.0) / (self._grand_total + len(self._name_totals) + 1.0)
@@ -72,7 +113,10 @@ class FlowIndex:
         found = self._ranked.get(cue)
         if found is None:
             counter = self.given[cue]
-            found = self._ranked[cue] = (counter.most_common(), float(sum(counter.values())))
+            found = (counter.most_common(), float(sum(counter.values())))
+            if len(self._ranked) > 50_000:
+                self._ranked.clear()
+            self._ranked[cue] = found
         return found
 
     def add(self, cue: str, name: str, weight: float = 1.0, place: tuple[str, int] | None = None) -> None:
@@ -85,18 +129,44 @@ class FlowIndex:
             if len(found) < 2:
                 found.append(place)
 
-    def to_json(self) -> dict:
-        return {"given": {cue: sorted(counter.items(), key=lambda item: (-item[1], item[0]))
-                          for cue, counter in sorted(self.given.items())},
-                "places": [[cue, name, [list(place) for place in places]]
-                           for (cue, name), places in sorted(self.places.items())]}
+    def stored(self) -> tuple[dict, dict]:
+        """The index as plain documents and arrays for the model bundle, less what scoring never uses:
+        weak cues seen only once, and places of all but a cue's three most given names."""
+        cues = [cue for cue in sorted(self.given) if kept_cue(cue, sum(self.given[cue].values()))]
+        names: dict[str, int] = {}
+        indptr, name_ids, counts = [0], [], []
+        for cue in cues:
+            for name, count in sorted(self.given[cue].items(), key=lambda item: (-item[1], item[0])):
+                name_ids.append(names.setdefault(name, len(names)))
+                counts.append(count)
+            indptr.append(len(name_ids))
+        paths: dict[str, int] = {}
+        place_rows = []
+        for number, cue in enumerate(cues):
+            for name, _ in self.given[cue].most_common(3):
+                for path, line in self.places.get((cue, name), []):
+                    place_rows.append([number, names[name], paths.setdefault(path, len(paths)), line])
+        documents = {"cues": cues, "names": list(names), "paths": list(paths)}
+        arrays = {"flow_indptr": np.array(indptr, dtype=np.int64), "flow_names": np.array(name_ids, dtype=np.int32),
+                  "flow_counts": np.array(counts, dtype=np.float32),
+                  "flow_places": np.array(place_rows, dtype=np.int32).reshape(len(place_rows), 4)}
+        return documents, arrays
 
     @classmethod
-    def from_json(cls, data: dict) -> "FlowIndex":
-        index = cls({cue: Counter({name: float(count) for name, count in pairs}) for cue, pairs in data["given"].items()})
-        index.places = {(cue, name): [(str(path), int(line)) for path, line in places]
-                        for cue, name, places in data["places"]}
+    def from_stored(cls, documents: dict, arrays: dict) -> "FlowIndex":
+        cues, names, paths = documents["cues"], documents["names"], documents["paths"]
+        if len(arrays["flow_indptr"]) != len(cues) + 1 or len(arrays["flow_names"]) != len(arrays["flow_counts"]):
+            raise ValueError("the flow index's arrays disagree with its cues")
+        index = cls(CueTable(cues, names, arrays["flow_indptr"], arrays["flow_names"], arrays["flow_counts"]))
+        for cue, name, path, line in np.asarray(arrays["flow_places"]).tolist():
+            index.places.setdefault((cues[cue], names[name]), []).append((paths[path], line))
         return index
+
+
+def kept_cue(cue: str, total: float) -> bool:
+    """Whether a cue is evidence at all: a hint seen once (`r = MockRequest(...)` in one place) is
+    a coincidence; a strong cue (a parameter's one caller) counts from one place on."""
+    return total >= 2.0 - 1e-6 or cue.split(":", 1)[0] in STRONG_KINDS
 
 
 @dataclass
@@ -205,7 +275,7 @@ class FlowView:
         else:
             ranked, total = self.index.ranked(cue)
         found = CueCounts(ranked, given, total, delta)
-        return found if found.total > 1e-6 else None
+        return found if found.total > 1e-6 and kept_cue(cue, found.total) else None
 
 
 def cross_cue(cue: str) -> str | None:

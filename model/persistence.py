@@ -31,12 +31,13 @@ def save(store: Path, trained: TrainedModel, manifest: dict, refused: bool = Fal
                   "trained_paths": sorted(tables.trained_paths), "min_count": tables.min_count,
                   "classes": tables.classes},
     }
-    documents["flow"] = tables.flow.to_json()
+    documents["flow"], flow_arrays = tables.flow.stored()
     if trained.detector is not None:
         documents["detector"] = trained.detector.to_json()
     if trained.reranker is not None:
         documents["reranker"] = trained.reranker.to_json()
     arrays = {name: getattr(tables, name) for name in _TABLE_ARRAYS}
+    arrays.update(flow_arrays)
     full = dict(manifest, created=time.strftime("%Y-%m-%dT%H:%M:%SZ", time.gmtime()),
                 thresholds={language: value for language, value in trained.thresholds.items() if math.isfinite(value)},
                 languages=trained.languages, quality=public(trained.quality), counts=trained.counts,
@@ -59,7 +60,7 @@ def scorer_from_bundle(loaded: store_files.Bundle) -> Scorer:
             total_occurrences=float(names["total_occurrences"]),
             variables_per_language={k: int(v) for k, v in names.get("variables_per_language", {}).items()},
             positional=bool(names.get("positional", True)),
-            flow=FlowIndex.from_json(loaded.documents["flow"]),
+            flow=FlowIndex.from_stored(loaded.documents["flow"], arrays),
             trained_paths=frozenset(names["trained_paths"]), min_count=int(names["min_count"]),
             classes=dict(names["classes"]),
             **{name: arrays[name] for name in _TABLE_ARRAYS},
