@@ -239,8 +239,8 @@ class CueCounts:
             seen.add(name)
             if count > 1e-6 and allowed(name):
                 found.append((name, count))
-                if len(found) >= limit + len(self.delta):
-                    break
+                if len(found) >= limit:
+                    break  # a file's own share seldom reorders the top
         found.extend((name, count) for name, count in self.delta.items()
                      if name not in seen and count > 1e-6 and name not in self.counts and allowed(name))
         found.sort(key=lambda item: -item[1])

@@ -27,9 +27,17 @@ _COLLECTIONS = frozenset({"List", "list", "Sequence", "Iterable", "Iterator", "s
                           "FrozenSet", "Collection", "MutableSequence", "Generator", "AsyncIterator"})
 
 
-def python_cues(tree: ast.AST, variable_at: dict[tuple[int, int], Variable], column) -> dict[int, list[str]]:
-    """Cues per variable (keyed by id()) from a parsed module; `variable_at` maps a Name's
-    (line, character column) to its variable, `column(line, byte offset)` converts ast columns."""
+# The nodes cues are read from; the scope pass hands them over as it meets them (a second walk
+# over the whole tree cost a third of reading a file).
+FLOW_NODES = (ast.Assign, ast.AnnAssign, ast.NamedExpr, ast.For, ast.AsyncFor, ast.withitem, ast.Call, ast.Dict,
+              ast.FunctionDef, ast.AsyncFunctionDef, ast.Lambda, ast.ClassDef, ast.ListComp, ast.SetComp,
+              ast.DictComp, ast.GeneratorExp, ast.Return)
+
+
+def python_cues(nodes: list[ast.AST], variable_at: dict[tuple[int, int], Variable], column) -> dict[int, list[str]]:
+    """Cues per variable (keyed by id()) from a module's FLOW_NODES, each with the function it sits in
+    (for returns); `variable_at` maps a Name's (line, character column) to its variable,
+    `column(line, byte offset)` converts ast columns."""
     cues: dict[int, list[str]] = {}
 
     def of(node: ast.AST) -> Variable | None:
@@ -44,8 +52,11 @@ def python_cues(tree: ast.AST, variable_at: dict[tuple[int, int], Variable], col
             return
         cues.setdefault(id(variable), []).append(f"{kind}:{word}")
 
-    for node in ast.walk(tree):
-        if isinstance(node, (ast.Assign, ast.AnnAssign, ast.NamedExpr)):
+    for node, function in nodes:
+        if isinstance(node, ast.Return):
+            if function and node.value is not None:
+                add(of(node.value), "returned", function)
+        elif isinstance(node, (ast.Assign, ast.AnnAssign, ast.NamedExpr)):
             targets = node.targets if isinstance(node, ast.Assign) else [node.target]
             value = node.value
             for target in targets:
@@ -62,8 +73,11 @@ def python_cues(tree: ast.AST, variable_at: dict[tuple[int, int], Variable], col
                     key = constant_key(target.slice)
                     if key:
                         add(of(value), "key", key)  # `settings["timeout"] = timeout`
-        elif isinstance(node, (ast.For, ast.AsyncFor, ast.comprehension)):
+        elif isinstance(node, (ast.For, ast.AsyncFor)):
             iter_cues(node.target, node.iter, of, add)
+        elif isinstance(node, (ast.ListComp, ast.SetComp, ast.DictComp, ast.GeneratorExp)):
+            for generator in node.generators:
+                iter_cues(generator.target, generator.iter, of, add)
         elif isinstance(node, ast.withitem) and node.optional_vars is not None:
             variable = of(node.optional_vars)
             for kind, word, source in sources(node.context_expr):
@@ -196,10 +210,6 @@ def function_cues(function, of, add, called_as: str = "") -> None:
         if argument.annotation is not None:
             for word in annotation_types(argument.annotation):
                 add(of(argument), "type", word)
-    if name and not isinstance(function, ast.Lambda):
-        for statement in ast.walk(function):
-            if isinstance(statement, ast.Return) and statement.value is not None:
-                add(of(statement.value), "returned", name)
 
 
 def annotation_types(annotation: ast.AST) -> list[str]:

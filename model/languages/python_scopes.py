@@ -8,7 +8,7 @@ import warnings
 
 from ..scopes import LOCAL, PARAMETER, RECEIVER_NAMES, Variable
 from ..tokens import KEYWORD, NAME, Token
-from .python_flow import python_cues
+from .python_flow import FLOW_NODES, python_cues
 
 
 _SCOPE_NODES = (ast.FunctionDef, ast.AsyncFunctionDef, ast.Lambda, ast.ListComp, ast.SetComp,
@@ -80,6 +80,7 @@ def python_scopes(text: str, tokens: list[Token], future: str = "") -> tuple[lis
     module_names = frozenset(top.get_identifiers())
 
     # Match ast scope nodes to symtable children by (name, line) and order of appearance.
+    flow_nodes: list[tuple[ast.AST, str]] = []  # what name-flow cues are read from, with their function
     scopes: list[_Scope] = []
 
     def children_by_key(table) -> dict[tuple[str, int], list]:
@@ -143,6 +144,9 @@ def python_scopes(text: str, tokens: list[Token], future: str = "") -> tuple[lis
                 visit_node(value, scope, children)
 
     def visit_node(node: ast.AST, scope: _Scope | None, children: dict) -> None:
+        if isinstance(node, FLOW_NODES):
+            flow_nodes.append((node, scope.function if scope is not None and isinstance(
+                scope.node, (ast.FunctionDef, ast.AsyncFunctionDef)) else ""))
         if isinstance(node, ast.Name):
             record(scope, node.id, node.lineno, char_column(node.lineno, node.col_offset), LOCAL)
             return
@@ -245,7 +249,7 @@ def python_scopes(text: str, tokens: list[Token], future: str = "") -> tuple[lis
             ))
             by_id[id(variable)] = variable
     variable_at = {(tokens[i].line, tokens[i].column): v for v in variables for i in v.occurrences}
-    for variable_id, found in python_cues(tree, variable_at, char_column).items():
+    for variable_id, found in python_cues(flow_nodes, variable_at, char_column).items():
         by_id[variable_id].cues = tuple(dict.fromkeys(found))
     return variables, module_names, module_facts(tree)
 
