@@ -400,6 +400,34 @@ class Flow:
         return [share, math.log1p(total), float(strong), float(len(cues) - strong), partial, float(len(self.cues)),
                 fit]
 
+    def features_many(self, names: list[str]) -> np.ndarray:
+        """`features` of many names at once (a shortlist), the same numbers."""
+        rows = np.zeros((len(names), len(FEATURES)))
+        rows[:, 5] = len(self.cues)
+        if not names:
+            return rows
+        if self.given:
+            counts = np.array([[counts.get(name) for name in names] for _, counts in self.given]).T
+            totals = np.array([counts.total for _, counts in self.given])
+            rows[:, 0] = (counts / totals).max(axis=1)
+            rows[:, 1] = np.log1p(counts.sum(axis=1))
+            own = [k for k, (cue, _) in enumerate(self.given) if cue in self._own]
+            if own and self.index is not None:
+                overall = np.array([self.index.name_share(name) for name in names])[:, None]
+                rows[:, 6] = np.log((counts[:, own] + PRIOR * overall) / ((totals[own] + PRIOR) * overall)).sum(axis=1)
+        if self.implied:
+            for position, name in enumerate(names):
+                cues = self.implied.get(name)
+                if cues:
+                    strong = sum(1 for cue in cues if cue.split(":", 1)[0] in STRONG_KINDS)
+                    rows[position, 2], rows[position, 3] = strong, len(cues) - strong
+                parts = set(split_identifier(name))
+                if parts:
+                    rows[position, 4] = max((len(parts & other_parts) / len(parts)
+                                             for other, other_parts in self._implied_parts.items() if other != name),
+                                            default=0.0)
+        return rows
+
     def best_other_share(self, name: str) -> float:
         """The largest share any other name has at any cue."""
         best = 0.0

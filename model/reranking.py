@@ -93,8 +93,7 @@ def shortlist_features(tables: NameTables, ranking: Ranking, allowed: np.ndarray
                              best_embedding, name, ranking))
     matrix = np.vstack([table_part, np.array(features, dtype=np.float64).reshape(len(features), len(TABLE_FEATURES))])
     flow = ranking.flow
-    flow_part = np.array([flow.features(name) if flow is not None else [0.0] * len(FLOW_FEATURES) for name in names],
-                         dtype=np.float64).reshape(len(names), len(FLOW_FEATURES))
+    flow_part = flow.features_many(names) if flow is not None else np.zeros((len(names), len(FLOW_FEATURES)))
     return names, rows, np.hstack([matrix, flow_part])
 
 

@@ -8,6 +8,7 @@ a seeded sample of the whole repository scored that way; the shipped tables use 
 from __future__ import annotations
 
 import hashlib
+import multiprocessing
 import os
 import random
 import time
@@ -311,9 +312,22 @@ def file_examples(tables: NameTables, source: SourceFile, share: FileCounts, see
 
 def collect_examples(tables: NameTables, files: list[SourceFile], shares: dict[str, FileCounts], seed: int,
                      weights: Weights | None = None, background: frozenset[str] = frozenset(),
-                     reuse=None) -> Examples:
+                     reuse=None, workers: int = 1) -> Examples:
     """Every sampled file's examples; `reuse(source)` may hand back a file's examples from an
-    earlier training, and is told of the ones computed afresh."""
+    earlier training, and is told of the ones computed afresh. With several workers, files are
+    scored in forked processes that share the tables (each file's examples depend on it alone)."""
+    found_by_path = {}
+    pending = []
+    for source in files:
+        found = reuse.get(source) if reuse is not None else None
+        if found is None:
+            pending.append(source)
+        else:
+            found_by_path[source.path] = found
+    for source, found in zip(pending, _score_files(tables, pending, shares, seed, weights, workers)):
+        found_by_path[source.path] = found
+        if reuse is not None:
+            reuse.put(source, found)
     examples = Examples()
     for source in files:
         file_number = len(examples.paths)
@@ -321,11 +335,7 @@ def collect_examples(tables: NameTables, files: list[SourceFile], shares: dict[s
         examples.file_lines.append(source.lines)
         examples.file_languages.append(source.language)
         examples.team.append(source.path not in background)
-        found = reuse.get(source) if reuse is not None else None
-        if found is None:
-            found = file_examples(tables, source, shares[source.path], seed, weights)
-            if reuse is not None:
-                reuse.put(source, found)
+        found = found_by_path[source.path]
         examples.features.extend(found.features)
         examples.labels.extend(found.labels.tolist())
         examples.flaggable.extend(found.flaggable.tolist())
@@ -334,6 +344,31 @@ def collect_examples(tables: NameTables, files: list[SourceFile], shares: dict[s
         examples.recovered_at.extend(found.recovered_at)
         examples.shortlist_files.extend([file_number] * len(found.shortlists))
     return examples
+
+
+_SHARED: tuple = ()  # what forked scoring processes read: set just before they start
+
+
+def _score_files(tables: NameTables, files: list[SourceFile], shares: dict[str, FileCounts], seed: int,
+                 weights: Weights | None, workers: int) -> list[FileExamples]:
+    if workers <= 1 or len(files) < 8 or "fork" not in multiprocessing.get_all_start_methods():
+        return [file_examples(tables, source, shares[source.path], seed, weights) for source in files]
+    global _SHARED
+    _SHARED = (tables, files, shares, seed, weights)
+    try:
+        with multiprocessing.get_context("fork").Pool(min(workers, len(files))) as pool:
+            # Larger files first, so that the processes finish together.
+            order = sorted(range(len(files)), key=lambda k: -len(files[k].variables))
+            results = dict(zip(order, pool.map(_score_shared, order, chunksize=1)))
+    finally:
+        _SHARED = ()
+    return [results[k] for k in range(len(files))]
+
+
+def _score_shared(number: int) -> FileExamples:
+    tables, files, shares, seed, weights = _SHARED
+    source = files[number]
+    return file_examples(tables, source, shares[source.path], seed, weights)
 
 
 KEPT_WEIGHT = 5  # a name the team kept on purpose counts as this many fitting names for the detector
@@ -402,7 +437,7 @@ def train(corpus: Corpus, settings: TrainSettings, progress=None, background: Co
                                   settings.background_weight)
     sample = sample_files(corpus.files, background_files, settings.examples_per_language, settings.seed)
     examples = collect_examples(tables, sample, shares, settings.seed, settings.weights, background_paths,
-                                examples_store)
+                                examples_store, settings.workers)
     kept = kept_examples(tables, corpus.files, shares, accepted, settings.weights)
     calibrated = calibrate_model(examples, corpus, settings, kept)
     finished = time.monotonic()

@@ -1,5 +1,7 @@
 """Name flow: the names cues imply, the repository index, and what it lets through (hand-worked)."""
 
+import pytest
+
 from cognomen.model.flow import (FileFlow, FlowIndex, FlowView, build_index, describe, implied_names, plural,
                                  safe_key, singular, variable_flow)
 from cognomen.model.scopes import Variable
@@ -71,3 +73,16 @@ def test_a_variable_never_backs_its_own_name():
 def test_evidence_reads_as_a_sentence():
     assert describe("receiver", "frames", "frame", 12) == "values from `frames` are called `frame` in 12 places"
     assert describe("keyword", "timeout", "timeout", 0) == "it is passed as `timeout=`"
+
+
+def test_features_of_many_names_equal_one_at_a_time():
+    index = FlowIndex()
+    for name, cue in (("invoice", "argument:send#0"), ("invoice", "argument:send#0"), ("bill", "argument:send#0"),
+                      ("invoice", "call:load_invoice"), ("draft", "call:load_invoice"), ("draft", "returned:*")):
+        index.add(cue, name)
+    variable = Variable("x", "local", [0], 1, 1, cues=("argument:send#0", "call:load_invoice", "returned:make"))
+    flow = variable_flow(variable, FlowView(index), "snake", lambda name: True)
+    names = ["invoice", "bill", "draft", "nothing", "invoice_draft"]
+    many = flow.features_many(names)
+    for row, name in zip(many, names):
+        assert list(row) == pytest.approx(flow.features(name)), name
