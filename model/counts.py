@@ -262,9 +262,11 @@ class Holdout:
             (own_columns < len(rows)) & (rows[np.minimum(own_columns, max(len(rows) - 1, 0))] == self.rows)
         own = csr_matrix((np.full(int(inside.sum()), self.weight), (position[inside], own_columns[inside])),
                          shape=counts.shape)
-        remaining = (counts - own).tocsr()
-        own_totals = np.bincount(self.features, minlength=len(tables.feature_keys))[used] * self.weight
-        totals = tables.feature_totals[used].astype(np.float64) - own_totals
+        # Only what the tables hold can be taken out: a file changed since training has uses the
+        # tables never counted.
+        taken = own.minimum(counts).tocsr()
+        remaining = (counts - taken).tocsr()
+        totals = tables.feature_totals[used].astype(np.float64) - np.asarray(taken.sum(axis=1)).ravel()
         prior = SMOOTHING * np.maximum(totals, 1e-9) / max(tables.total_occurrences - self.total, 1.0)
         entry_rows = np.repeat(np.arange(len(used)), np.diff(remaining.indptr))
         data = remaining.data.astype(np.float64)

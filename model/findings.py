@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import bisect
+import hashlib
 import math
 import re
 from dataclasses import dataclass, field
@@ -90,7 +91,9 @@ def analyse_text(text: str, path: str, language: str | None = None,
     language = language or language_for_path(path.rsplit("/", 1)[-1])
     if language is None:
         return None
-    return analyse(text, path, language, pieces=pieces)
+    # The content hash tells the model whether it learned from this very text.
+    digest = hashlib.sha256(text.encode("utf-8", "surrogateescape")).hexdigest()
+    return analyse(text, path, language, digest, pieces=pieces)
 
 
 def check_source(scorer: Scorer, source: SourceFile, threshold: float | None = None,

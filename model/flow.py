@@ -221,7 +221,9 @@ class CueCounts:
 
     def __init__(self, ranked: list[tuple[str, float]], counts: Counter, total: float, delta: dict[str, float]):
         self.ranked, self.counts, self.delta = ranked, counts, delta
-        self.total = total + sum(delta.values())
+        # A share taken out that the index never held (a file changed since training) takes out nothing.
+        self.total = total + sum(max(counts.get(name, 0.0) + change, 0.0) - counts.get(name, 0.0)
+                                 for name, change in delta.items())
 
     def get(self, name: str) -> float:
         count = self.counts.get(name, 0.0) + self.delta.get(name, 0.0)

@@ -28,7 +28,7 @@ def save(store: Path, trained: TrainedModel, manifest: dict, refused: bool = Fal
         "names": {"names": tables.names, "languages": tables.name_languages, "styles": tables.styles,
                   "evidence_paths": tables.evidence_paths, "total_occurrences": tables.total_occurrences,
                   "variables_per_language": tables.variables_per_language, "positional": tables.positional,
-                  "trained_paths": sorted(tables.trained_paths), "min_count": tables.min_count,
+                  "trained_files": dict(sorted(tables.trained_files.items())), "min_count": tables.min_count,
                   "classes": tables.classes},
     }
     documents["flow"], flow_arrays = tables.flow.stored()
@@ -61,7 +61,8 @@ def scorer_from_bundle(loaded: store_files.Bundle) -> Scorer:
             variables_per_language={k: int(v) for k, v in names.get("variables_per_language", {}).items()},
             positional=bool(names.get("positional", True)),
             flow=FlowIndex.from_stored(loaded.documents["flow"], arrays),
-            trained_paths=frozenset(names["trained_paths"]), min_count=int(names["min_count"]),
+            trained_files={str(path): str(digest) for path, digest in names["trained_files"].items()},
+            min_count=int(names["min_count"]),
             classes=dict(names["classes"]),
             **{name: arrays[name] for name in _TABLE_ARRAYS},
         )

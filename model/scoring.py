@@ -55,7 +55,7 @@ class NameTables:
     variables_per_language: dict[str, int] = field(default_factory=dict)
     positional: bool = True  # context counts keep each neighbour's offset (False: a bag of neighbours)
     flow: FlowIndex = field(default_factory=FlowIndex)  # names the team gives at each cue (flow.py)
-    trained_paths: frozenset[str] = frozenset()  # the team's files the counts include
+    trained_files: dict[str, str] = field(default_factory=dict)  # the team's files the counts include: their hashes
     classes: dict = field(default_factory=dict)  # the team's classes: bases and methods (overrides.py)
     min_count: int = 2  # the vocabulary's minimum count
 
@@ -451,10 +451,12 @@ MIN_FLAGGED_LENGTH = 3
 
 
 def flaggable(fit: NameFit | None, name: str) -> bool:
-    """Whether a name may be flagged: one the team uses elsewhere (so it means something to the
-    team that this use can contradict), and longer than shorthand. A name the team has never
-    used for a variable is a new word, judged by its parts for suggestions but never flagged."""
-    return fit is not None and fit.known and len(name.strip("_")) >= MIN_FLAGGED_LENGTH
+    """Whether a name may be flagged: longer than shorthand, and either a name the team uses
+    elsewhere or a single word (`flag`). A compound the team has never used for a variable
+    (`extracted_path`) was spelled out on purpose: judged by its parts for suggestions, never flagged."""
+    if fit is None or len(name.strip("_")) < MIN_FLAGGED_LENGTH:
+        return False
+    return fit.known or len(split_identifier(name)) == 1
 
 
 def name_fit(tables: NameTables, ranking: Ranking, name: str, weights: Weights | None = None) -> NameFit | None:
@@ -620,9 +622,9 @@ class Scorer:
         (the others keep an empty list): the expensive part is skipped where nothing is shown.
         """
         holdout = None
-        if source.path in self.tables.trained_paths:
-            # The model learned from this file: take its share out, as calibration did, or the
-            # file's own names would back themselves.
+        if source.digest and self.tables.trained_files.get(source.path) == source.digest:
+            # The model learned from this very file: take its share out, as calibration did, or the
+            # file's own names would back themselves. (A file changed since is read as new code.)
             from .counts import forget_file
 
             holdout, ids = forget_file(self.tables, source, whole_file=False)

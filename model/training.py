@@ -430,7 +430,7 @@ def train(corpus: Corpus, settings: TrainSettings, progress=None, background: Co
     tables = build_tables(list(shares.values()), sources, vocabulary, inputs, outputs, settings.names_per_language,
                           settings.positional_counts, settings.seed, background_paths)
     tables.min_count = settings.min_count
-    tables.trained_paths = frozenset(f.path for f in corpus.files)
+    tables.trained_files = {f.path: f.digest for f in corpus.files}
     tables.classes = repository_classes(corpus.files)
     if settings.use_flow:
         tables.flow = build_index(everything, background_paths, team_subtokens(corpus.files),
@@ -477,7 +477,7 @@ def calibrate_model(examples: Examples, corpus: Corpus, settings: TrainSettings,
         reranker, ranks = train_reranker(examples, folds)
     quality = summarise(ranks)
     labels = np.array(examples.labels)
-    features = np.array(examples.features).reshape(len(labels), -1)
+    features = np.array(examples.features, dtype=np.float64).reshape(len(labels), len(FEATURE_NAMES))
     detector, oddness = None, features[:, 0] if len(labels) else np.zeros(0)
     if settings.use_detector and labels.size >= 20 and 0 < labels.sum() < labels.size:
         fit_on, fit_labels = features, labels

@@ -466,8 +466,6 @@ def rename_actions(ls: NameServer, params: types.CodeActionParams) -> list[types
     diagnostics = [d for d in params.context.diagnostics if d.code == DIAGNOSTIC_CODE
                    and d.range.start.line == finding.line - 1] if finding.flagged else None
     actions = []
-    if finding.flagged:
-        actions.append(keep_action(ls, uri, source, finding, diagnostics))
     for index, suggestion in enumerate(finding.suggestions[:3]):
         edits = [types.TextEdit(range=client_range(document, line, column, length), new_text=text)
                  for line, column, length, text in finding.rename_edits(suggestion.name)]
@@ -477,6 +475,8 @@ def rename_actions(ls: NameServer, params: types.CodeActionParams) -> list[types
         actions.append(types.CodeAction(
             title=title, kind=kind, diagnostics=diagnostics or None, is_preferred=finding.flagged and index == 0,
             edit=types.WorkspaceEdit(changes={uri: edits})))
+    if finding.flagged:  # after the renames: a client taking the first action renames
+        actions.append(keep_action(ls, uri, source, finding, diagnostics))
     return actions
 
 

@@ -93,13 +93,6 @@ def workspace(demo_copy, tmp_path):
 # clearest a valve called `zone` at fernhill/valves.py:123:9 (the team calls it `valve`).
 ODD_NAMES_PATCH = DEMO / "changes" / "odd-names.patch"
 # Tests that need that `zone` flagged, while a product bug keeps it from being flagged.
-ZONE_NOT_FLAGGED = pytest.mark.xfail(strict=True, reason=(
-    "product bug: a file changed since training is scored less the shares of its variables as they are now "
-    "(scoring.judge_many -> counts.forget_file on the current text, flow_is_current), so `zone`'s own share is "
-    "taken from the cue iterated:open_valves it never added to; the team's 2 places there count as 1 and the "
-    "weak-cue rule (flow.kept_cue, 7a5bdc9) drops the cue: `zone` scores 1.5 (4.65 with the cue), not flagged"))
-
-
 def apply_odd_names(repo: Path, *paths: str) -> None:
     """Apply the prepared change with git, uncommitted (only its parts for `paths`, when given)."""
     git(repo, "apply", *(f"--include={path}" for path in paths), str(ODD_NAMES_PATCH))

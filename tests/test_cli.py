@@ -3,10 +3,9 @@
 import json
 import re
 
-from .conftest import ZONE_NOT_FLAGGED, run_cli
+from .conftest import run_cli
 
 
-@ZONE_NOT_FLAGGED
 def test_train_summary_and_check_json(patched_demo):
     result = run_cli("check", "--format", "json", "fernhill/valves.py", "fernhill/readings.py", cwd=patched_demo)
     assert result.returncode == 0, result.stderr
@@ -25,7 +24,6 @@ def test_train_summary_and_check_json(patched_demo):
         assert re.search(r"\bvalve\b", line), place
 
 
-@ZONE_NOT_FLAGGED
 def test_check_text_reads_like_a_compiler_message(patched_demo):
     result = run_cli("check", "fernhill/valves.py", cwd=patched_demo)
     assert result.returncode == 0
@@ -34,7 +32,6 @@ def test_check_text_reads_like_a_compiler_message(patched_demo):
     assert result.stdout.splitlines()[-1] == "1 oddly named variable in 1 file"
 
 
-@ZONE_NOT_FLAGGED
 def test_check_a_folder_checks_every_source_file_under_it(patched_demo):
     one = run_cli("check", "fernhill/valves.py", cwd=patched_demo)
     folder = run_cli("check", "fernhill", cwd=patched_demo)
@@ -48,7 +45,6 @@ def test_check_a_folder_checks_every_source_file_under_it(patched_demo):
     assert missing.returncode == 2 and "no such file or folder" in missing.stderr
 
 
-@ZONE_NOT_FLAGGED
 def test_suggest_many_positions(patched_demo):
     result = run_cli("suggest", "--format", "json", "fernhill/valves.py:123:10", "fernhill/valves.py:1:1",
                      cwd=patched_demo)

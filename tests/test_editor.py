@@ -10,7 +10,7 @@ from pathlib import Path
 
 import pytest
 
-from .conftest import FIXTURES, ROOT, ZONE_NOT_FLAGGED, renamed_by_ast
+from .conftest import FIXTURES, ROOT, renamed_by_ast
 
 NVIM = shutil.which("nvim")
 EMACS = shutil.which("emacs")
@@ -27,7 +27,6 @@ def assert_renamed_in_the_buffer_only(buffer: str, workspace: Path) -> None:
 
 
 @pytest.mark.skipif(NVIM is None, reason="Neovim is not installed (apt-get install -y neovim)")
-@ZONE_NOT_FLAGGED
 def test_neovim_shows_the_hint_and_applies_the_quick_fix(patched_workspace, tmp_path):
     workspace = patched_workspace
     out = tmp_path / "buffer.txt"
@@ -52,7 +51,6 @@ def readme_eglot_setup() -> str:
 
 @pytest.mark.skipif(EMACS is None or not DEBIAN_EGLOT,
                     reason="Emacs with eglot is not installed (apt-get install -y emacs-nox elpa-eglot)")
-@ZONE_NOT_FLAGGED
 def test_emacs_eglot_shows_the_hint_and_applies_the_quick_fix(patched_workspace, tmp_path):
     workspace = patched_workspace
     setup = tmp_path / "init.el"

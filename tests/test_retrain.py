@@ -113,7 +113,7 @@ def test_reproducible_training_gives_the_same_model_bit_for_bit(repo, tmp_path):
     for name in ("input_vectors.npy", "output_vectors.npy", "detector.json", "context_counts.npy"):
         assert (first / name).read_bytes() == (second / name).read_bytes(), name
     manifests = [json.loads((d / "manifest.json").read_text()) for d in (first, second)]
-    assert manifests[0]["threshold"] == manifests[1]["threshold"]
+    assert manifests[0]["thresholds"] == manifests[1]["thresholds"]
 
 
 def test_the_store_keeps_itself_out_of_git(repo):

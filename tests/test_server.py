@@ -10,7 +10,7 @@ from lsprotocol import types
 from pygls.exceptions import JsonRpcException
 from pytest_lsp import client_capabilities
 
-from .conftest import DEMO, STDLIB, ZONE_NOT_FLAGGED, renamed_by_ast, run_cli, variable_places
+from .conftest import DEMO, STDLIB, renamed_by_ast, run_cli, variable_places
 from .lsp_helpers import code_actions_at, diagnostics_for, lsp_client, open_document, published
 
 pytestmark = pytest.mark.asyncio(loop_scope="function")
@@ -24,7 +24,6 @@ def position_of(text: str, needle: str, nth: int = 0) -> types.Position:
     return types.Position(line=line, character=index - (text.rfind("\n", 0, index) + 1))
 
 
-@ZONE_NOT_FLAGGED
 async def test_diagnostic_for_an_odd_name(patched_workspace):
     workspace = patched_workspace
     async with lsp_client(workspace) as client:
@@ -42,7 +41,6 @@ async def test_diagnostic_for_an_odd_name(patched_workspace):
                    for info in diagnostic.related_information)
 
 
-@ZONE_NOT_FLAGGED
 async def test_quick_fix_renames_every_occurrence(patched_workspace):
     workspace = patched_workspace
     path = workspace / "fernhill" / "valves.py"
@@ -124,7 +122,6 @@ async def hover_on_zone(workspace, **session):
         yield hover, text, client
 
 
-@ZONE_NOT_FLAGGED
 async def test_hover_explains_the_fit(patched_workspace):
     workspace = patched_workspace
     async with hover_on_zone(workspace) as (hover, text, client):
@@ -157,7 +154,6 @@ async def test_completion_at_a_new_binding(workspace):
         assert not_a_binding is None or not not_a_binding.items
 
 
-@ZONE_NOT_FLAGGED
 async def test_bad_settings_are_reported_and_defaults_used(patched_workspace):
     workspace = patched_workspace
     async with lsp_client(workspace, options={"severity": "loud", "debounceMs": -3}) as client:
@@ -211,7 +207,6 @@ async def test_new_model_is_loaded_without_a_restart(workspace):
         assert any(isinstance(r, types.WorkDoneProgressEnd) for r in reports)
 
 
-@ZONE_NOT_FLAGGED
 async def test_bad_requests_get_errors_and_the_server_keeps_going(patched_workspace, capfd):
     workspace = patched_workspace
     path = workspace / "fernhill" / "alerts.py"
@@ -243,7 +238,6 @@ async def test_bad_requests_get_errors_and_the_server_keeps_going(patched_worksp
     assert "Traceback" not in log
 
 
-@ZONE_NOT_FLAGGED
 async def test_a_damaged_new_model_is_refused_and_the_old_one_stays(patched_workspace):
     workspace = patched_workspace
     store = workspace / ".cognomen"
@@ -288,7 +282,6 @@ async def test_positions_past_the_end_of_a_line(workspace):
         await client.text_document_completion_async(types.CompletionParams(text_document=document, position=past))
 
 
-@ZONE_NOT_FLAGGED
 async def test_an_empty_list_of_initialization_options_is_no_settings(patched_workspace):
     # Neovim's Lua encodes an empty table `{}` as the JSON array `[]`.
     async with lsp_client(patched_workspace, options=[]) as client:
@@ -297,7 +290,6 @@ async def test_an_empty_list_of_initialization_options_is_no_settings(patched_wo
         assert not [m.message for m in client.messages if "setting" in m.message]
 
 
-@ZONE_NOT_FLAGGED
 async def test_hover_in_plain_text_for_a_client_without_markdown(patched_workspace):
     capabilities = client_capabilities("neovim@v0.10.0")
     capabilities.text_document.hover.content_format = [types.MarkupKind.PlainText]
