@@ -57,6 +57,10 @@ def main() -> int:
         show("cognomen review  (a prepared change plants three odd names: the average moisture stored in `flag`, "
              "the dry readings collected in `schedule`, and a valve called `zone`)", review)
         print(f"review exit code: {review.returncode} (1: the change introduced odd names)")
+        # The threshold was calibrated on only about 2,300 lines of Python; the planted names are the
+        # change's three oddest, and a lower threshold shows each with the team's name for it.
+        show("cognomen review --threshold 2  (the same change, flagged above oddness 2 instead of the calibrated "
+             "threshold)", run("review", "--threshold", "2", cwd=repo))
     return 0
 
 
