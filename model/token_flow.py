@@ -71,19 +71,26 @@ def _occurrence_cues(tokens: list[Token], j: int, variable, variable_at, languag
     return cues
 
 
+def name_chain(tokens: list[Token], k: int, separators: tuple[str, ...] = (".", "::"),
+               kinds: tuple[str, ...] = (NAME,)) -> list[int]:
+    """The names of a chain starting at k, `self.frames.get`, as token indices."""
+    chain = []
+    while k < len(tokens) and tokens[k].kind in kinds and tokens[k].text not in ("mut", "const"):
+        chain.append(k)
+        if k + 2 < len(tokens) and tokens[k + 1].text in separators and tokens[k + 2].kind in kinds:
+            k += 2
+            continue
+        break
+    return chain
+
+
 def right_hand_side(tokens: list[Token], k: int, variable, variable_at,
                     call_markers: frozenset[str] = frozenset({"(", "{"})) -> list[str]:
     """Cues of the value bound at k: `open_session(...)`, `self.frames.get(...)`, `config.timeout`, `rows[i]`."""
     count = len(tokens)
     while k < count and tokens[k].text in ("new", "await", "&", "*", "try", "mut"):
         k += 1
-    chain = []
-    while k < count and tokens[k].kind == NAME:
-        chain.append(k)
-        if k + 2 < count and tokens[k + 1].text in (".", "::", "->") and tokens[k + 2].kind == NAME:
-            k += 2
-            continue
-        break
+    chain = name_chain(tokens, k, (".", "::", "->"))
     if not chain:
         return []
     last = chain[-1]
@@ -117,14 +124,7 @@ def _loop_cues(tokens: list[Token], j: int, language, variable_at, variable) -> 
         k += 1
     elif word not in language.loop_words or (word == ":" and not _in_loop_header(tokens, j)):
         return []
-    chain = []
-    k += 1
-    while k < len(tokens) and tokens[k].kind == NAME:
-        chain.append(k)
-        if k + 2 < len(tokens) and tokens[k + 1].text in (".", "::") and tokens[k + 2].kind == NAME:
-            k += 2
-            continue
-        break
+    chain = name_chain(tokens, k + 1)
     names = [tokens[c].text for c in chain if tokens[c].text not in _ITERATING_CALLS and tokens[c].text != "self"]
     if not names or variable_at.get(chain[0]) is variable:
         return []
@@ -208,13 +208,7 @@ def declared_types(tokens: list[Token], first: int, language) -> list[str]:
     while k < count and tokens[k].text in ("*", "&", "mut", "[", "]", "..."):
         many = many or tokens[k].text in ("[", "...")
         k += 1
-    chain = []
-    while k < count and tokens[k].kind in (NAME, KEYWORD) and tokens[k].text not in ("mut", "const"):
-        chain.append(k)
-        if k + 2 < count and tokens[k + 1].text in (".", "::"):
-            k += 2
-            continue
-        break
+    chain = name_chain(tokens, k, kinds=(NAME, KEYWORD))
     if not chain:
         return []
     last = chain[-1]

@@ -106,19 +106,7 @@ class Language:
 
     def block_header(self, tokens: list[Token], brace: int) -> range:
         """The tokens of a block's header: back to the previous statement boundary or unclosed bracket."""
-        j, depth = brace - 1, 0
-        while j >= 0:
-            text = tokens[j].text
-            if text in (")", "]"):
-                depth += 1
-            elif text in ("(", "["):
-                if depth == 0:
-                    break
-                depth -= 1
-            elif depth == 0 and text in (";", "{", "}"):
-                break
-            j -= 1
-        return range(j + 1, brace)
+        return header_range(tokens, brace, (";", "{", "}"))
 
     def not_uses(self, tokens: list[Token]) -> frozenset[int]:
         """Token indices that never bind or use a variable, whatever their text (a type annotation's names)."""
@@ -166,6 +154,24 @@ def _is_member(language: Language, tokens: list[Token], head: list[int]) -> bool
     """Whether a list item ends in a member, `this.lock`, rather than a parameter (`int... amounts`)."""
     return tokens[head[-2]].text in language.member_access and \
         (len(head) < 3 or tokens[head[-3]].text not in language.member_access)
+
+
+def header_range(tokens: list[Token], brace: int, boundaries: tuple[str, ...], line: int | None = None) -> range:
+    """The tokens before `brace` back to a boundary outside brackets or an unclosed bracket (and,
+    given a line, no further than that line)."""
+    j, depth = brace - 1, 0
+    while j >= 0 and (line is None or tokens[j].line == line):
+        text = tokens[j].text
+        if text in (")", "]"):
+            depth += 1
+        elif text in ("(", "["):
+            if depth == 0:
+                break
+            depth -= 1
+        elif depth == 0 and text in boundaries:
+            break
+        j -= 1
+    return range(j + 1, brace)
 
 
 def matching_open(tokens: list[Token], closing: int) -> int:

@@ -5,7 +5,7 @@ from __future__ import annotations
 import re
 
 from ..tokens import KEYWORD, NAME, OPERATOR, Token
-from .base import KEY, USE, Language, matching_close, parameter_groups, words
+from .base import KEY, USE, Language, header_range, matching_close, parameter_groups, words
 
 # Before a "{" on its line, these make it a block rather than a composite literal.
 _CONTROL = frozenset({"if", "for", "switch", "select", "func", "else", "go", "defer"})
@@ -119,20 +119,7 @@ class Go(Language):
 
     def block_header(self, tokens: list[Token], brace: int) -> range:
         # Go statements end at the line's end: `for i := 0; i < n; i++ {` is one header.
-        line = tokens[brace].line
-        j, depth = brace - 1, 0
-        while j >= 0 and tokens[j].line == line:
-            text = tokens[j].text
-            if text in (")", "]"):
-                depth += 1
-            elif text in ("(", "["):
-                if depth == 0:
-                    break
-                depth -= 1
-            elif depth == 0 and text in ("{", "}"):
-                break
-            j -= 1
-        return range(j + 1, brace)
+        return header_range(tokens, brace, ("{", "}"), tokens[brace].line)
 
     def occurrence_role(self, tokens: list[Token], j: int, opening: int) -> str:
         # `Config{Timeout: timeout}`: the key is a field, the value the variable.
