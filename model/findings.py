@@ -14,7 +14,8 @@ from .chunks import PieceCache
 from .corpus import SourceFile, analyse
 from .scopes import Variable
 from .suppression import is_kept
-from .scoring import IGNORED_NAMES, Judgement, Scorer, Suggestion, allowed_mask, rank_candidates, token_ids
+from .scoring import (IGNORED_NAMES, MIN_FLAGGED_LENGTH, Judgement, Scorer, Suggestion, allowed_mask, rank_candidates,
+                      token_ids)
 from .languages import get_language, language_for_path
 
 
@@ -75,12 +76,15 @@ def _finding(source: SourceFile, judgement: Judgement, scorer: Scorer, threshold
         # `{timeout}` keeps its property's name: a rename writes `timeout: {new name}` there.
         pattern = get_language(source.language).shorthand_rename(variable.name, "{}")
         shorthand = {(source.tokens[i].line, source.tokens[i].column): pattern for i in variable.shorthand}
+    # Shorthand (`b`, `s`) is never offered in place of a word: every such suggestion loses meaning.
+    suggestions = [s for s in judgement.suggestions
+                   if len(s.name) >= MIN_FLAGGED_LENGTH or len(variable.name) < MIN_FLAGGED_LENGTH]
+    flagged = scorer.is_flagged(judgement, threshold + (CLEAREST_MARGIN if variable.public_parameter else 0.0))
     return Finding(
         path=source.path, line=first.line, column=first.column, end_line=first.line,
         end_column=first.column + len(variable.name), name=variable.name, score=judgement.oddness,
-        threshold=threshold,
-        flagged=scorer.is_flagged(judgement, threshold + (CLEAREST_MARGIN if variable.public_parameter else 0.0)),
-        suggestions=judgement.suggestions, variable=variable, occurrences=places, shorthand=shorthand,
+        threshold=threshold, flagged=flagged and bool(suggestions),
+        suggestions=suggestions, variable=variable, occurrences=places, shorthand=shorthand,
         language=source.language, dictated=judgement.dictated,
     )
 
