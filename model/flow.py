@@ -42,11 +42,7 @@ VERBS = frozenset("""get set load make create read parse build compute find fetc
     update apply convert normalize normalise prepare decode encode wrap split join check ensure
     do run start fill select pick choose read write""".split())
 # Cues whose word names the value outright; the rest hint at it.
-STRONG_KINDS = frozenset({"keyword", "store", "key", "parameter", "argument", "returned", "default"})
-# A hint (a callee, a container, a type) counts only where the team is consistent: its most given
-# name at least this share of at least PEAK_TOTAL names. `Split(...)` and `[]byte` have no habit.
-PEAK_SHARE = 0.3
-PEAK_TOTAL = 3.0
+STRONG_KINDS = frozenset({"keyword", "store", "key", "parameter", "argument", "returned", "type", "default"})
 # A cue's word that says nothing about a value's name.
 _NOTHING = frozenset({"self", "cls", "this", "super", "it", "x", "_", "value", "values", "obj", "object", "args",
                       "kwargs", "data", "item", "items", "result", "results", "str", "int", "len", "list", "dict",
@@ -235,13 +231,6 @@ class CueCounts:
 
     def share(self, name: str) -> float:
         return self.get(name) / self.total if self.total > 1e-6 else 0.0
-
-    def peaked(self, allowed) -> bool:
-        """Whether the team gives one name here consistently (see PEAK_SHARE)."""
-        if self.total < PEAK_TOTAL:
-            return False
-        top = self.top(1, allowed)
-        return bool(top) and top[0][1] / self.total >= PEAK_SHARE
 
     def top(self, limit: int, allowed) -> list[tuple[str, float]]:
         """The most common allowed names, best first."""
@@ -512,12 +501,11 @@ def variable_flow(variable, view: FlowView, style: str, allowed, weight: float =
     implied: dict[str, list[str]] = {}
     own = set(index_cues(variable.cues))
     for cue in index_cues(variable.cues):
-        cross = cross_cue(cue)
-        # An argument hears the callee's parameter and a parameter its callers, never their peers:
-        # what other callers of `len` or `decode` pass says nothing of this value.
-        for looked_up in ((cross,) if cross else (cue,)):
+        for looked_up in (cue, cross_cue(cue)):
+            if not looked_up:
+                continue
             counts = view.counts(looked_up, variable.name, weight if looked_up in own else 0.0)
-            if counts is not None and (looked_up.split(":", 1)[0] in STRONG_KINDS or counts.peaked(allowed)):
+            if counts is not None:
                 given.append((looked_up, counts))
         for name in implied_names(cue, style):
             if allowed(name):

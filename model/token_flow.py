@@ -45,7 +45,8 @@ def _occurrence_cues(tokens: list[Token], j: int, variable, variable_at, languag
     binding = j == variable.occurrences[0]  # a binding is never an argument, `if let Some(last) = ...` included
     if not loop and not binding and before in ("(", ",") and after in (")", ","):
         call = _enclosing_call(tokens, j)
-        if call is not None:
+        # A builtin's parameters (`len(b)`, `append(list, x)`) say nothing of what is passed.
+        if call is not None and call[0] not in language.reserved:
             callee, position = call
             cues.append(f"argument:{callee}#{position}")
             opening = _call_opening(tokens, j)
