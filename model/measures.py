@@ -42,6 +42,15 @@ def label(key: str) -> str:
     return _NAME_BY_KEY.get(key) or NAMES.get(key) or key.replace("_", " ")
 
 
+def figure(value) -> str:
+    """A measure's value as printed: three decimals, counts with thousands separators, "-" for none."""
+    if value is None or (isinstance(value, float) and value != value):
+        return "-"
+    if isinstance(value, float):
+        return f"{value:.3f}"
+    return f"{value:,}" if isinstance(value, int) else str(value)
+
+
 def public_evaluation(result: dict) -> dict:
     """An evaluation's result (see `evaluation.evaluate_corpus`) with every measure under its public key."""
     return dict(public(result), calibration=public(result.get("calibration", {})),

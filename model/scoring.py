@@ -184,19 +184,6 @@ def token_ids(source: SourceFile, vocabulary: Vocabulary) -> np.ndarray:
                        count=len(source.tokens))
 
 
-def occurrence_contexts(ids: np.ndarray, occurrences: list[int], window: int, self_id: int,
-                        pad_id: int) -> np.ndarray:
-    """Token ids at offsets -window..-1, 1..window of each occurrence; the variable itself masked."""
-    positions = np.asarray(occurrences[:MAX_OCCURRENCES], dtype=np.int64)
-    offsets = np.concatenate([np.arange(-window, 0), np.arange(1, window + 1)])
-    where = positions[:, None] + offsets[None, :]
-    inside = (where >= 0) & (where < len(ids))
-    context = np.where(inside, ids[np.clip(where, 0, max(len(ids) - 1, 0))], pad_id)
-    own = np.isin(where, np.asarray(occurrences, dtype=np.int64))
-    context[own] = self_id
-    return context
-
-
 def lexical_context(source: SourceFile, variable: Variable) -> tuple[frozenset[str], frozenset[str], frozenset[str]]:
     """Sub-tokens of other identifiers near the variable's uses (and of its function's name),
     those identifiers themselves, and the ones among them that are called."""
@@ -291,7 +278,8 @@ def rank_many(tables: NameTables, source: SourceFile, variables: list[Variable],
                 lexical_scores[index, columns] += 1.0
     lexical_scores /= sizes[None, :]
     combined = count_scores * np.float32(weights.counts)
-    combined += embedding_scores * np.float32(weights.embedding)
+    if weights.embedding:
+        combined += embedding_scores * np.float32(weights.embedding)
     combined += lexical_scores * np.float32(weights.lexical)
     view = view or file_view(tables, source, holdout)
     style = tables.styles.get(source.language, get_language(source.language).naming_style)

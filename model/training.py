@@ -63,15 +63,15 @@ class TrainSettings:
         return Weights(embedding=self.embedding_weight, lexical=self.lexical_weight, counts=self.count_weight)
 
 
+def _draw(seed: int, path: str) -> int:
+    """A path's seeded 64-bit hash: file order for sampling, folds and held-out splits."""
+    return int.from_bytes(hashlib.sha256(f"{seed}:{path}".encode()).digest()[:8], "big")
+
+
 def split_files(paths: list[str], share: float, seed: int) -> tuple[set[str], set[str]]:
     """Split paths by a seeded hash: (kept, held out); the held-out share is about `share`."""
-    held = set()
-    for path in paths:
-        digest = hashlib.sha256(f"{seed}:{path}".encode()).digest()
-        if int.from_bytes(digest[:4], "big") / 2**32 < share:
-            held.add(path)
+    held = {path for path in paths if (_draw(seed, path) >> 32) / 2**32 < share}
     return set(paths) - held, held
-
 
 
 def train_embeddings(files: list[SourceFile], vocabulary: Vocabulary, settings: TrainSettings,
@@ -130,7 +130,6 @@ def train_embeddings(files: list[SourceFile], vocabulary: Vocabulary, settings: 
     return inputs, outputs
 
 
-
 def seed_misname(source: SourceFile, variable: Variable, rng: random.Random,
                  local_names: list[str] | None = None) -> str | None:
     """A name used for a local variable elsewhere in the same file and not in this variable's scope."""
@@ -160,7 +159,6 @@ def renamed_variable(variable: Variable, new_name: str) -> Variable:
                     variable.function, variable.public_parameter,
                     (variable.bound_names - {variable.name}) | {new_name}, variable.scope_kind,
                     variable.shorthand, variable.dictated, variable.owner, variable.cues)
-
 
 
 def calibrate_by_files(oddness_clean: np.ndarray, files: np.ndarray, file_lines: np.ndarray, budget: float,
@@ -194,7 +192,6 @@ def calibrate(oddness_clean: np.ndarray, lines: int, budget: float) -> float:
     return float(ordered[allowed_flags])
 
 
-
 def auc(positives: np.ndarray, negatives: np.ndarray) -> float:
     """Area under the ROC curve: the chance a positive outscores a negative (ties count half)."""
     if len(positives) == 0 or len(negatives) == 0:
@@ -209,8 +206,6 @@ def auc(positives: np.ndarray, negatives: np.ndarray) -> float:
     ranks[order] = np.repeat(average, counts_)
     positive_ranks = ranks[: len(positives)].sum()
     return float((positive_ranks - len(positives) * (len(positives) + 1) / 2) / (len(positives) * len(negatives)))
-
-
 
 
 @dataclass
@@ -247,10 +242,6 @@ def sample_files(team: list[SourceFile], background: list[SourceFile], budget: i
         taken[source.language] = taken.get(source.language, 0) + len(source.variables)
         chosen.append(source)
     return chosen
-
-
-def _draw(seed: int, path: str) -> int:
-    return int.from_bytes(hashlib.sha256(f"{seed}:{path}".encode()).digest()[:8], "big")
 
 
 def judged_variables(tables: NameTables, source: SourceFile) -> list[Variable]:

@@ -92,7 +92,8 @@ def workspace(demo_copy, tmp_path):
 # The demo's prepared change: it plants odd names the model (trained on the code before it) never saw, the
 # clearest a valve called `zone` at fernhill/valves.py:123:9 (the team calls it `valve`).
 ODD_NAMES_PATCH = DEMO / "changes" / "odd-names.patch"
-# Tests that need that `zone` flagged, while a product bug keeps it from being flagged.
+
+
 def apply_odd_names(repo: Path, *paths: str) -> None:
     """Apply the prepared change with git, uncommitted (only its parts for `paths`, when given)."""
     git(repo, "apply", *(f"--include={path}" for path in paths), str(ODD_NAMES_PATCH))

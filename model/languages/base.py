@@ -78,10 +78,14 @@ class Language:
             j -= 1
         if j < 0 or tokens[j].text != ")":
             return None
-        opening = matching_open(tokens, j)
+        return self.list_closed_at(tokens, j)
+
+    def list_closed_at(self, tokens: list[Token], closing: int) -> tuple[int, int] | None:
+        """(index of "(", `closing`) for the list a ")" closes, unless a control word leads it (`if (...) {`)."""
+        opening = matching_open(tokens, closing)
         if opening <= 0 or tokens[opening - 1].text in self.control_words:
             return None
-        return opening, j
+        return opening, closing
 
     def parameters(self, tokens: list[Token], opening: int, closing: int) -> list[int]:
         """Parameter names in a list; typed languages: the last name before any default value."""

@@ -5,7 +5,7 @@ from __future__ import annotations
 import re
 
 from ..tokens import KEYWORD, NAME, OPERATOR, Token
-from .base import (KEY, SHORTHAND, USE, Language, directly_inside, matching_close, matching_open,
+from .base import (KEY, SHORTHAND, USE, Language, directly_inside, matching_close,
                    parameter_groups, words)
 
 _RESERVED = words("""break case catch class const continue debugger default delete do else export
@@ -79,10 +79,7 @@ class JavaScript(Language):
                 j -= 1
             else:
                 return None
-        opening = matching_open(tokens, j)
-        if opening <= 0 or tokens[opening - 1].text in self.control_words:
-            return None
-        return opening, j
+        return self.list_closed_at(tokens, j)
 
     def parameters(self, tokens: list[Token], opening: int, closing: int) -> list[int]:
         found = []

@@ -351,8 +351,6 @@ def _range_names(name_index, tokens, start, end):
             yield position, index
 
 
-
-
 def python_token_variables(tokens: list[Token]) -> list[Variable]:
     """Fallback for Python with syntax errors: assignments and parameters by indentation-free rules."""
     variables: dict[tuple[int, str], Variable] = {}

@@ -69,7 +69,7 @@ class Rust(Language):
             return []
         closing = matching_close(tokens, k)
         return [index for group in parameter_groups(tokens, k, closing)
-                for index in pattern_names(tokens, group[0], _group_pattern_end(tokens, group))]
+                for index in pattern_names(tokens, group[0], _pattern_end(tokens, group[0], _PARAMETER_STOPS))]
 
     def function_name(self, tokens: list[Token], brace: int) -> str:
         j = brace - 1
@@ -120,7 +120,7 @@ def _closure_parameters(tokens: list[Token], closing: int) -> list[int]:
     if opening < 0 or (opening and tokens[opening - 1].text not in _CLOSURE_BEFORE):
         return []
     return [k for group in parameter_groups(tokens, opening, closing)
-            for k in pattern_names(tokens, group[0], _group_pattern_end(tokens, group))]
+            for k in pattern_names(tokens, group[0], _pattern_end(tokens, group[0], _PARAMETER_STOPS))]
 
 
 def pattern_names(tokens: list[Token], start: int, end: int) -> list[int]:
@@ -140,6 +140,10 @@ def pattern_names(tokens: list[Token], start: int, end: int) -> list[int]:
     return found
 
 
+# A parameter's pattern ends at its type's ":", or with the parameter when it has no type (`|a, b|`).
+_PARAMETER_STOPS = (":", ",", "|")
+
+
 def _pattern_end(tokens: list[Token], start: int, stops: tuple[str, ...]) -> int:
     depth = 0
     for k in range(start, len(tokens)):
@@ -153,20 +157,6 @@ def _pattern_end(tokens: list[Token], start: int, stops: tuple[str, ...]) -> int
         elif depth == 0 and text in stops:
             return k
     return len(tokens)
-
-
-def _group_pattern_end(tokens: list[Token], group: list[int]) -> int:
-    """End of the pattern in a parameter `pattern: Type`: its top-level ":" (or the group's end)."""
-    depth = 0
-    for k in group:
-        text = tokens[k].text
-        if text in ("(", "[", "{"):
-            depth += 1
-        elif text in (")", "]", "}"):
-            depth -= 1
-        elif text == ":" and depth == 0:
-            return k
-    return group[-1] + 1
 
 
 def _is_struct_brace(tokens: list[Token], opening: int) -> bool:

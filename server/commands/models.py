@@ -7,7 +7,7 @@ from pathlib import Path
 
 from cognomen.model import bundle
 from cognomen.model.bundle import ModelError
-from cognomen.model.measures import label
+from cognomen.model.measures import figure, label
 
 from .exits import OK, UsageError
 from .store import store_for
@@ -50,8 +50,8 @@ def run(args) -> int:
         coverage = m.get("coverage", {}).get("occurrence_share")
         print(f"{'*' if m.get('model_id') == current else ' ':2}{m.get('model_id', '?'):24} "
               f"{m.get('created', ''):20} {(m.get('source_commit') or '-')[:8]:8} {counts.get('files', 0):>6} "
-              f"{counts.get('vocabulary', 0):>10} {_figure(quality.get('found_in_top_5')):>14} "
-              f"{_figure(quality.get('misnames_flagged')):>16} {_figure(coverage):>8}  {status}")
+              f"{counts.get('vocabulary', 0):>10} {figure(quality.get('found_in_top_5')):>14} "
+              f"{figure(quality.get('misnames_flagged')):>16} {figure(coverage):>8}  {status}")
     for m, status, problem in listed:
         if status == "damaged":
             print(f"note: {m.get('model_id')} is damaged and will not load: {problem}")
@@ -93,7 +93,3 @@ def promote(store: Path, model_id: str | None) -> int:
         raise UsageError(str(error)) from None
     print(f"current model is now {model_id}")
     return OK
-
-
-def _figure(value) -> str:
-    return "-" if value is None else f"{value:.3f}"

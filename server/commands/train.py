@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import time
 
-from cognomen.model.measures import label
+from cognomen.model.measures import figure, label
 from cognomen.model.pipeline import NothingToLearn, PromotionPolicy, train_repository
 from cognomen.model.training import TrainSettings
 
@@ -116,7 +116,7 @@ def summary(result, settings: TrainSettings) -> str:
         else:
             lines.append(f"  {language:10} suggestions only: {entry.get('suggestions_only', 'no threshold')}")
     if quality:
-        lines.append("  held out   " + ", ".join(f"{label(k)} {_figure(v)}" for k, v in quality.items()))
+        lines.append("  held out   " + ", ".join(f"{label(k)} {figure(v)}" for k, v in quality.items()))
     reuse = manifest.get("reuse", {})
     if reuse:
         lines.append(f"  reused     embeddings {reuse.get('embeddings', '-')}; examples of "
@@ -126,9 +126,3 @@ def summary(result, settings: TrainSettings) -> str:
     if result.pruned:
         lines.append(f"  pruned     {', '.join(result.pruned)}")
     return "\n".join(lines)
-
-
-def _figure(value) -> str:
-    if isinstance(value, float):
-        return "-" if value != value else f"{value:.3f}"
-    return f"{value:,}" if isinstance(value, int) else str(value)
