@@ -111,6 +111,8 @@ def check_source(scorer: Scorer, source: SourceFile, threshold: float | None = N
     limit = scorer.threshold_for(source.language, threshold)
     findings = []
     variables = [v for v in source.variables if v.name not in IGNORED_NAMES]
+    if flagged_only:
+        variables = [v for v in variables if scorer.may_be_flagged(source, v)]
     suggest_above = limit if flagged_only else None
     if cache is not None:
         judgements = cache.judge(scorer, source, variables, suggest_above)

@@ -263,10 +263,10 @@ def rank_many(tables: NameTables, source: SourceFile, variables: list[Variable],
         # if unseen, and the thresholds then flag ten times the budget on new code.
         normalisers = np.zeros(len(variables), dtype=np.float32)
         embedding_scores = np.zeros((len(variables), len(rows)), dtype=np.float32)
-    lexical_scores = np.zeros((len(variables), len(rows)), dtype=np.float32)
     contexts, identifiers, called = [], [], []
     postings = tables.subtoken_columns[source.language]
     sizes = tables.subtoken_sizes[rows].astype(np.float32)
+    hits = []  # flat (variable, candidate) cells, one per shared sub-token
     for index, variable in enumerate(variables):
         subtokens, near, calls = lexical_context(source, variable)
         contexts.append(subtokens)
@@ -275,7 +275,9 @@ def rank_many(tables: NameTables, source: SourceFile, variables: list[Variable],
         for subtoken in subtokens:
             columns = postings.get(subtoken)
             if columns is not None and len(columns):
-                lexical_scores[index, columns] += 1.0
+                hits.append(columns + index * len(rows))
+    lexical_scores = np.bincount(np.concatenate(hits) if hits else np.zeros(0, np.int64),
+                                 minlength=len(variables) * len(rows)).astype(np.float32).reshape(len(variables), -1)
     lexical_scores /= sizes[None, :]
     combined = count_scores * np.float32(weights.counts)
     if weights.embedding:
@@ -495,10 +497,14 @@ def detection_features(tables: NameTables, ranking: Ranking, allowed: np.ndarray
     best = int(np.argmax(combined))
     row = tables.row_by_name.get((ranking.language, name))
     name_count = ranking.name_count(tables, row) if row is not None else 0.0
+    if ranking.embedding_scores.any():
+        best_embedding = float(np.max(np.where(allowed, ranking.embedding_scores, -np.inf)))
+    else:  # embeddings off: every candidate's embedding score is 0
+        best_embedding = 0.0 if allowed.any() else -math.inf
     return np.array([
         float(combined[best]) - fit.combined,
         float(np.max(np.where(allowed, ranking.count_scores, -np.inf))) - fit.count,
-        float(np.max(np.where(allowed, ranking.embedding_scores, -np.inf))) - fit.embedding,
+        best_embedding - fit.embedding,
         fit.lexical,
         float(ranking.lexical_scores[best]),
         math.log1p(fit.rank),
@@ -622,6 +628,16 @@ class Scorer:
         rankings = {id(variable): ranking for variable, ranking in
                     zip(judged, rank_in_batches(self.tables, source, judged, ids, self.weights, holdout, chunk))}
         return [self._judge_ranked(source, v, rankings.get(id(v)), limit, suggest_above) for v in variables]
+
+    def may_be_flagged(self, source: SourceFile, variable: Variable) -> bool:
+        """False for a variable no judgement could flag (shorthand, a compound the team never used,
+        a dictated name), known before any scoring: a check that shows only flags skips it."""
+        name = variable.name
+        if name in IGNORED_NAMES or len(name.strip("_")) < MIN_FLAGGED_LENGTH:
+            return False
+        if (source.language, name) not in self.tables.row_by_name and len(split_identifier(name)) > 1:
+            return False
+        return not self.dictated(source, variable)
 
     def dictated(self, source: SourceFile, variable: Variable) -> str:
         """Why a variable's name is not the team's to choose, or "": then it is never flagged."""

@@ -90,6 +90,20 @@ def test_suggestions_never_collide_shadow_or_use_reserved_words(stdlib_scorer):
     assert checked > 500
 
 
+def test_a_check_of_flags_only_skips_no_name_it_would_flag(stdlib_scorer):
+    """`check` skips variables no judgement could flag; lowered thresholds show it skips no flag."""
+    compared = 0
+    for threshold in (-2.0, 0.0, 1.0):
+        for source in held_out_sources():
+            every = [(f.line, f.column, f.name, [s.name for s in f.suggestions]) for f in
+                     check_source(stdlib_scorer, source, threshold=threshold, flagged_only=False) if f.flagged]
+            flags = [(f.line, f.column, f.name, [s.name for s in f.suggestions]) for f in
+                     check_source(stdlib_scorer, source, threshold=threshold)]
+            assert flags == every
+            compared += len(flags)
+    assert compared > 20
+
+
 def test_seeded_misname_is_flagged_and_its_name_restored(stdlib_scorer):
     """End to end on unseen real code: rename a variable wrongly; the model should notice and undo it."""
     rng = random.Random(11)
