@@ -100,8 +100,8 @@ def build_tables(counts: list[FileCounts], sources: dict[str, SourceFile], vocab
     feature_keys, indptr, columns, values = _sum_pairs(key_parts, row_parts, weight_parts, len(names),
                                                        2 * WINDOW * len(vocabulary))
     feature_totals = np.add.reduceat(values, indptr[:-1]) if len(feature_keys) else np.zeros(0)
-    evidence = _evidence(counts, sources, row_by_name, vocabulary, inputs, seed, background)
-    return NameTables(
+    evidence, chosen = _evidence(counts, sources, row_by_name, vocabulary, inputs, seed, background)
+    tables = NameTables(
         vocabulary=vocabulary, input_vectors=inputs, output_vectors=outputs, names=names,
         name_languages=languages, name_counts=np.array(name_counts, dtype=np.float32),
         name_vocab_rows=np.array([vocabulary.id(n) for n in names], dtype=np.int32), styles=styles,
@@ -112,6 +112,8 @@ def build_tables(counts: list[FileCounts], sources: dict[str, SourceFile], vocab
         variables_per_language=dict(variables_per_language), positional=positional,
         **evidence,
     )
+    tables.evidence_places = chosen  # (path, variable number) of each evidence row, while training
+    return tables
 
 
 def _rows(row_by_name: dict, share: FileCounts) -> np.ndarray:
@@ -150,11 +152,11 @@ def _team_words(sources: dict[str, SourceFile], background: frozenset[str]) -> d
 
 def _evidence(counts: list[FileCounts], sources: dict[str, SourceFile], row_by_name: dict, vocabulary: Vocabulary,
               inputs: np.ndarray, seed: int, background: frozenset[str]) -> dict:
-    """Up to EVIDENCE_PER_NAME places per name, from different files, each with its context vector."""
+    """Up to EVIDENCE_PER_NAME places per name, from different files, each with its context vector
+    (zeros until the embeddings are trained: see evidence_vectors)."""
     order = [share for share in counts if share.path not in background and share.path in sources]
     random.Random(seed).shuffle(order)
     places: dict[int, list[tuple[str, int]]] = {}
-    chosen: dict[str, list[tuple[int, int]]] = {}  # path -> (row, variable index)
     for share in order:
         for row, variable in zip(_rows(row_by_name, share).tolist(), share.variables):
             if row < 0:
@@ -162,31 +164,41 @@ def _evidence(counts: list[FileCounts], sources: dict[str, SourceFile], row_by_n
             found = places.setdefault(row, [])
             if len(found) < EVIDENCE_PER_NAME and all(path != share.path for path, _ in found):
                 found.append((share.path, variable))
-                chosen.setdefault(share.path, []).append((row, variable))
-    vectors_by_place: dict[tuple[str, int], np.ndarray] = {}
-    lines_by_place: dict[tuple[str, int], int] = {}
-    self_id, pad_id = vocabulary.id(SELF_TOKEN), vocabulary.id(PAD_TOKEN)
-    for path, picks in chosen.items():
-        source = sources[path]
-        variables = [source.variables[k] for _, k in picks]
-        positions, owners, _ = occurrence_table(variables)
-        vectors = context_vectors(inputs, self_id, pad_id, token_ids(source, vocabulary), positions, owners,
-                                  len(variables))
-        for (_, k), vector, variable in zip(picks, vectors, variables):
-            vectors_by_place[(path, k)] = vector
-            lines_by_place[(path, k)] = source.tokens[variable.occurrences[0]].line
-    evidence_rows, path_ids, lines, vectors = [], [], [], []
+    evidence_rows, path_ids, lines, chosen = [], [], [], []
     paths: dict[str, int] = {}
     for row in sorted(places):
         for path, k in places[row]:
+            source = sources[path]
             evidence_rows.append(row)
             path_ids.append(paths.setdefault(path, len(paths)))
-            lines.append(lines_by_place[(path, k)])
-            vectors.append(vectors_by_place[(path, k)])
-    return {"evidence_rows": np.array(evidence_rows, dtype=np.int32), "evidence_paths": list(paths),
-            "evidence_path_ids": np.array(path_ids, dtype=np.int32),
-            "evidence_lines": np.array(lines, dtype=np.int32),
-            "evidence_vectors": np.array(vectors, dtype=np.float32).reshape(len(vectors), inputs.shape[1])}
+            lines.append(source.tokens[source.variables[k].occurrences[0]].line)
+            chosen.append((path, k))
+    found = {"evidence_rows": np.array(evidence_rows, dtype=np.int32), "evidence_paths": list(paths),
+             "evidence_path_ids": np.array(path_ids, dtype=np.int32),
+             "evidence_lines": np.array(lines, dtype=np.int32),
+             "evidence_vectors": np.zeros((len(chosen), inputs.shape[1]), dtype=np.float32)}
+    found["evidence_vectors"] = evidence_vectors(chosen, counts, sources, vocabulary, inputs) if inputs.any() else \
+        found["evidence_vectors"]
+    return found, chosen
+
+
+def evidence_vectors(chosen: list[tuple[str, int]], counts: list[FileCounts], sources: dict[str, SourceFile],
+                     vocabulary: Vocabulary, inputs: np.ndarray) -> np.ndarray:
+    """The context vector of each evidence place (path, variable number), in the embeddings `inputs`."""
+    shares = {share.path: share for share in counts}
+    by_path: dict[str, list[int]] = {}
+    for number, (path, _) in enumerate(chosen):
+        by_path.setdefault(path, []).append(number)
+    vectors = np.zeros((len(chosen), inputs.shape[1]), dtype=np.float32)
+    self_id, pad_id = vocabulary.id(SELF_TOKEN), vocabulary.id(PAD_TOKEN)
+    for path, numbers in by_path.items():
+        source = sources[path]
+        variables = [source.variables[chosen[n][1]] for n in numbers]
+        positions, owners, _ = occurrence_table(variables)
+        share = shares.get(path)
+        ids = share.ids if share is not None and share.ids is not None else token_ids(source, vocabulary)
+        vectors[numbers] = context_vectors(inputs, self_id, pad_id, ids, positions, owners, len(variables))
+    return vectors
 
 
 def forget_file(tables: NameTables, source: SourceFile, weight: float = 1.0, whole_file: bool = True,

@@ -154,7 +154,8 @@ def train_repository(path: Path, store: Path, settings: TrainSettings, policy: P
             if not from_scratch:
                 previous = PreviousVectors(current.documents["vocabulary"]["tokens"],
                                            np.asarray(current.arrays["input_vectors"]),
-                                           np.asarray(current.arrays["output_vectors"]))
+                                           np.asarray(current.arrays["output_vectors"]),
+                                           dict(current.documents["names"].get("trained_files", {})))
         except (bundle.ModelError, KeyError):
             current_manifest = {}
     corpus_hash = fingerprint(corpus)

@@ -1,7 +1,7 @@
 """What a weekly retrain takes over from the last one: its embeddings, and each unchanged file's examples.
 
-Embeddings continue from the current model's vectors (tokens new to the vocabulary start
-afresh) for fewer epochs. A file's examples (its variables scored as if unseen, seeded
+Embeddings continue from the current model's vectors and learn from the files that changed
+since (tokens new to the vocabulary start afresh). A file's examples (its variables scored as if unseen, seeded
 misnames and shortlists) change only through the other files' counts; while the code has
 changed little since they were computed (at most `REUSE_SHARE` of the files, counted from
 when the examples were last all computed afresh), an unchanged file's examples are reused.
@@ -14,7 +14,7 @@ import hashlib
 import json
 import os
 import shutil
-from dataclasses import dataclass
+from dataclasses import dataclass, field
 from pathlib import Path
 
 import numpy as np
@@ -30,6 +30,11 @@ class PreviousVectors:
     tokens: list[str]
     inputs: np.ndarray
     outputs: np.ndarray
+    trained_files: dict[str, str] = field(default_factory=dict)  # path -> content hash it learned from
+
+    def learned(self, source) -> bool:
+        """Whether the current model learned from this very file."""
+        return self.trained_files.get(source.path) == source.digest
 
 
 class ExampleStore:

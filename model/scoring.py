@@ -4,6 +4,8 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field
+from itertools import repeat
+from operator import attrgetter
 from typing import ClassVar
 
 import numpy as np
@@ -69,6 +71,12 @@ class NameTables:
                                  np.asarray(self.context_indptr)), shape=(len(self.feature_keys), len(self.names)))
             found = self._raw_counts[language] = matrix[:, self.rows_by_language[language]].tocsr()
         return found
+
+    def set_vectors(self, inputs: np.ndarray, outputs: np.ndarray, evidence_vectors: np.ndarray) -> None:
+        """The embeddings and the evidence places' context vectors, once trained (see counts.evidence_vectors)."""
+        self.input_vectors, self.output_vectors, self.evidence_vectors = inputs, outputs, evidence_vectors
+        self._output_by_language = {lang: np.asarray(self.output_vectors[self.name_vocab_rows[rows]], dtype=np.float32)
+                                    for lang, rows in self.rows_by_language.items()}
 
     def __post_init__(self) -> None:
         self.row_by_name = {(lang, name): row for row, (lang, name) in enumerate(zip(self.name_languages, self.names))}
@@ -180,8 +188,11 @@ class Judgement:
 
 
 def token_ids(source: SourceFile, vocabulary: Vocabulary) -> np.ndarray:
-    return np.fromiter((vocabulary.index.get(t.text, 0) for t in source.tokens), dtype=np.int64,
+    return np.fromiter(map(vocabulary.index.get, map(_TEXT, source.tokens), repeat(0)), dtype=np.int64,
                        count=len(source.tokens))
+
+
+_TEXT = attrgetter("text")
 
 
 def lexical_context(source: SourceFile, variable: Variable) -> tuple[frozenset[str], frozenset[str], frozenset[str]]:

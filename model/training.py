@@ -12,12 +12,13 @@ import multiprocessing
 import os
 import random
 import time
+from collections import Counter
 from dataclasses import asdict, dataclass, field
 
 import numpy as np
 
 from .corpus import Corpus, SourceFile
-from .counts import FileCounts, build_tables, count_file, forget_file
+from .counts import FileCounts, build_tables, count_file, evidence_vectors, forget_file
 from .flow import build_index
 from .overrides import inherited_from, repository_classes
 from .reuse import ExampleStore, PreviousVectors
@@ -42,7 +43,7 @@ class TrainSettings:
     vector_size: int = 64
     window: int = 5
     epochs: int = 5
-    warm_epochs: int = 2  # epochs when continuing from the current model's vectors
+    warm_epochs: int = 5  # epochs over the changed files when continuing from the current model's vectors
     negative: int = 5
     seed: int = 1
     workers: int = field(default_factory=lambda: os.cpu_count() or 1)
@@ -79,21 +80,25 @@ def train_embeddings(files: list[SourceFile], vocabulary: Vocabulary, settings: 
     """CBOW with negative sampling; returns input and output vectors in the vocabulary's row order.
 
     With `previous` vectors (last week's model), tokens it knew start from them and training
-    runs `settings.warm_epochs` epochs instead of `settings.epochs`.
+    reads only the files it did not learn from (new or changed), for `settings.warm_epochs`
+    epochs; the vocabulary's counts (the negative samples' distribution) are the whole corpus's.
     """
     from gensim.models import Word2Vec
     from gensim.models.callbacks import CallbackAny2Vec
 
+    warm = previous is not None and previous.inputs.shape[1] == settings.vector_size
     index = vocabulary.index
     unknown = vocabulary.tokens[0]
     sentences = []
     for source in files:
+        if warm and previous.learned(source):
+            continue
         texts = [t.text if t.text in index else unknown for t in source.tokens]
         for start in range(0, len(texts), MAX_SENTENCE):
             sentences.append(texts[start:start + MAX_SENTENCE])
     total_words = sum(len(s) for s in sentences)
 
-    epochs = settings.warm_epochs if previous is not None else settings.epochs
+    epochs = settings.warm_epochs if warm else settings.epochs
 
     class Progress(CallbackAny2Vec):
         def __init__(self):
@@ -110,15 +115,19 @@ def train_embeddings(files: list[SourceFile], vocabulary: Vocabulary, settings: 
     model = Word2Vec(vector_size=settings.vector_size, window=settings.window, min_count=1, sg=0,
                      negative=settings.negative, hs=0, sample=0, workers=settings.workers, seed=settings.seed,
                      epochs=epochs)
-    model.build_vocab(sentences)
-    if previous is not None and previous.inputs.shape[1] == settings.vector_size:
+    if warm:
+        model.build_vocab_from_freq({token: count for token, count in zip(vocabulary.tokens, vocabulary.counts)
+                                     if count > 0})
         known = {token: row for row, token in enumerate(previous.tokens)}
         for token, gensim_row in model.wv.key_to_index.items():
             row = known.get(token)
             if row is not None:
                 model.wv.vectors[gensim_row] = previous.inputs[row]
                 model.syn1neg[gensim_row] = previous.outputs[row]
-    model.train(sentences, total_examples=len(sentences), epochs=epochs, callbacks=[Progress()])
+    else:
+        model.build_vocab(sentences)
+    if sentences:
+        model.train(sentences, total_examples=len(sentences), epochs=epochs, callbacks=[Progress()])
     dimensions = settings.vector_size
     inputs = np.zeros((len(vocabulary), dimensions), dtype=np.float32)
     outputs = np.zeros((len(vocabulary), dimensions), dtype=np.float32)
@@ -128,6 +137,84 @@ def train_embeddings(files: list[SourceFile], vocabulary: Vocabulary, settings: 
             inputs[row] = model.wv.vectors[gensim_row]
             outputs[row] = model.syn1neg[gensim_row]
     return inputs, outputs
+
+
+class EmbeddingRun:
+    """train_embeddings in a forked process, so that the name tables, the examples and the
+    calibration (which do not read the vectors) are built meanwhile; inline where fork is missing.
+
+    `wait()` gives the vectors and the seconds the embeddings took on their own. Progress
+    reports reach `progress` from a relay thread as the epochs end."""
+
+    def __init__(self, files: list[SourceFile], vocabulary: Vocabulary, settings: TrainSettings,
+                 progress=None, previous: PreviousVectors | None = None, overlap: bool = True):
+        self.started = time.monotonic()
+        self.result: tuple[np.ndarray, np.ndarray, float] | None = None
+        self.process = None
+        if not overlap or "fork" not in multiprocessing.get_all_start_methods():
+            inputs, outputs = train_embeddings(files, vocabulary, settings, progress, previous)
+            self.result = (inputs, outputs, time.monotonic() - self.started)
+            return
+        import threading
+
+        context = multiprocessing.get_context("fork")
+        self.receiver, sender = context.Pipe(duplex=False)
+        self.process = context.Process(target=_embeddings_child, args=(sender, files, vocabulary, settings, previous),
+                                       name="cognomen-embeddings", daemon=True)
+        self.process.start()
+        sender.close()
+        self.progress = progress
+        self.failure: str | None = None
+        self.relay = threading.Thread(target=self._relay, name="cognomen-embeddings-progress", daemon=True)
+        self.relay.start()
+
+    def _relay(self) -> None:
+        try:
+            while True:
+                message = self.receiver.recv()
+                if message[0] == "epoch":
+                    if self.progress:
+                        self.progress(*message[1])
+                elif message[0] == "done":
+                    self.result = message[1:]
+                    return
+                else:
+                    self.failure = message[1]
+                    return
+        except (EOFError, OSError):
+            self.failure = "the embeddings' process ended without its vectors"
+
+    def wait(self) -> tuple[np.ndarray, np.ndarray, float]:
+        if self.process is not None:
+            self.relay.join()
+            self.process.join()
+            self.receiver.close()
+            self.process = None
+            if self.result is None:
+                raise RuntimeError(self.failure or "the embeddings' process ended without its vectors")
+        return self.result
+
+    def stop(self) -> None:
+        """End the forked process early (training failed or was interrupted)."""
+        if self.process is not None:
+            self.process.terminate()
+            self.process.join()
+            self.process = None
+
+
+def _embeddings_child(sender, files, vocabulary, settings, previous) -> None:
+    started = time.monotonic()
+    try:
+        inputs, outputs = train_embeddings(files, vocabulary, settings,
+                                           lambda *args: sender.send(("epoch", args)), previous)
+        sender.send(("done", inputs, outputs, time.monotonic() - started))
+    except BaseException as error:  # noqa: BLE001 - told to the parent, which raises it
+        try:
+            sender.send(("failed", f"training the embeddings failed: {error!r}"))
+        except OSError:
+            pass
+    finally:
+        sender.close()
 
 
 def seed_misname(source: SourceFile, variable: Variable, rng: random.Random,
@@ -413,32 +500,55 @@ def train(corpus: Corpus, settings: TrainSettings, progress=None, background: Co
     counts, kinds = count_tokens(f.tokens for f in everything)
     vocabulary = build_vocabulary(counts, kinds, settings.vocabulary_size, settings.min_count)
     counted = time.monotonic()
-    inputs, outputs = train_embeddings(everything, vocabulary, settings, progress, previous)
-    embedded = time.monotonic()
-    shares = {f.path: count_file(f, vocabulary, settings.background_weight if f.path in background_paths else 1.0,
-                                 settings.positional_counts) for f in everything}
-    sources = {f.path: f for f in everything}
-    tables = build_tables(list(shares.values()), sources, vocabulary, inputs, outputs, settings.names_per_language,
-                          settings.positional_counts, settings.seed, background_paths)
-    tables.min_count = settings.min_count
-    tables.trained_files = {f.path: f.digest for f in corpus.files}
-    tables.classes = repository_classes(corpus.files)
-    if settings.use_flow:
-        tables.flow = build_index(everything, background_paths, team_subtokens(corpus.files),
-                                  settings.background_weight)
-    sample = sample_files(corpus.files, background_files, settings.examples_per_language, settings.seed)
-    examples = collect_examples(tables, sample, shares, settings.seed, settings.weights, background_paths,
-                                examples_store, settings.workers)
-    kept = kept_examples(tables, corpus.files, shares, accepted, settings.weights)
-    calibrated = calibrate_model(examples, corpus, settings, kept)
-    finished = time.monotonic()
+    # The tables, examples and calibration do not read the vectors (unless the embeddings are given
+    # a weight in the scores): they are built while the embeddings train in a process of their own.
+    embeddings = EmbeddingRun(everything, vocabulary, settings, progress, previous,
+                              overlap=not settings.weights.embedding)
+    try:
+        names_started = time.monotonic()
+        if embeddings.result is not None:
+            inputs, outputs, _ = embeddings.result
+        else:
+            inputs = outputs = np.zeros((len(vocabulary), settings.vector_size), dtype=np.float32)
+        shares = {f.path: count_file(f, vocabulary,
+                                     settings.background_weight if f.path in background_paths else 1.0,
+                                     settings.positional_counts) for f in everything}
+        sources = {f.path: f for f in everything}
+        tables = build_tables(list(shares.values()), sources, vocabulary, inputs, outputs,
+                              settings.names_per_language, settings.positional_counts, settings.seed, background_paths)
+        tables.min_count = settings.min_count
+        tables.trained_files = {f.path: f.digest for f in corpus.files}
+        tables.classes = repository_classes(corpus.files)
+        if settings.use_flow:
+            tables.flow = build_index(everything, background_paths,
+                                      team_subtokens(corpus.files, None if background_files else kinds),
+                                      settings.background_weight)
+        sample = sample_files(corpus.files, background_files, settings.examples_per_language, settings.seed)
+        examples = collect_examples(tables, sample, shares, settings.seed, settings.weights, background_paths,
+                                    examples_store, settings.workers)
+        kept = kept_examples(tables, corpus.files, shares, accepted, settings.weights)
+        calibrated = calibrate_model(examples, corpus, settings, kept)
+        names_seconds = time.monotonic() - names_started
+        waited = time.monotonic()
+        inputs, outputs, embedding_seconds = embeddings.wait()
+        waited = time.monotonic() - waited
+    except BaseException:
+        embeddings.stop()
+        raise
+    placed = time.monotonic()
+    if not tables.input_vectors.any():
+        tables.set_vectors(inputs, outputs, evidence_vectors(tables.evidence_places, list(shares.values()), sources,
+                                                             vocabulary, inputs))
+    names_seconds += time.monotonic() - placed
     return TrainedModel(
         vocabulary, tables, calibrated.detector, calibrated.thresholds, calibrated.quality,
         counts={"files": len(corpus.files), "background_files": len(background_files),
                 "lines": corpus.lines, "tokens": corpus.tokens, "vocabulary": len(vocabulary),
                 "names": len(tables.names), "calibration_files": len(sample)},
-        seconds={"vocabulary": round(counted - started, 2), "embeddings": round(embedded - counted, 2),
-                 "names_and_calibration": round(finished - embedded, 2)},
+        # The embeddings and the names stage run side by side: each one's own seconds, and how long
+        # the names stage then waited for the embeddings.
+        seconds={"vocabulary": round(counted - started, 2), "embeddings": round(embedding_seconds, 2),
+                 "names_and_calibration": round(names_seconds, 2), "waiting_for_embeddings": round(waited, 2)},
         reuse={"embeddings": "continued" if previous is not None else "from scratch",
                "examples_reused": examples_store.reused if examples_store else 0,
                "examples_computed": examples_store.computed if examples_store else len(sample)},
@@ -522,11 +632,15 @@ def calibrate_model(examples: Examples, corpus: Corpus, settings: TrainSettings,
     return Calibration(detector, reranker, thresholds, quality, report)
 
 
-def team_subtokens(files: list[SourceFile]) -> frozenset[str]:
-    """Every sub-token of the team's identifiers: what a string key must be made of to count."""
+def team_subtokens(files: list[SourceFile], kinds: dict[str, Counter] | None = None) -> frozenset[str]:
+    """Every sub-token of the team's identifiers: what a string key must be made of to count.
+    `kinds` (count_tokens' second answer over exactly these files) saves reading them again."""
     from .tokens import split_identifier
 
-    identifiers = {t.text for source in files for t in source.tokens if t.kind == "name"}
+    if kinds is not None:
+        identifiers = {text for text, found in kinds.items() if found.get("name")}
+    else:
+        identifiers = {t.text for source in files for t in source.tokens if t.kind == "name"}
     return frozenset(part for identifier in identifiers for part in split_identifier(identifier))
 
 
@@ -556,9 +670,11 @@ def train_reranker(examples: Examples, folds: np.ndarray) -> tuple[Reranker | No
     if len(usable) < 20:
         return None, np.array(examples.recovered_at)
 
+    # The true name and the dozen names that compete with it most: the rest teach the fit little.
+    nearest = {k: _nearest(*examples.shortlists[k]) for k in usable}
+
     def fit(indices):
-        # The true name and the dozen names that compete with it most: the rest teach the fit little.
-        kept = [_nearest(*examples.shortlists[k]) for k in indices]
+        kept = [nearest[k] for k in indices]
         return fit_reranker(np.vstack([rows for rows, _ in kept]), np.concatenate([labels for _, labels in kept]))
 
     whole = fit(usable)

@@ -4,6 +4,7 @@ from __future__ import annotations
 
 from collections import Counter
 from dataclasses import dataclass
+from operator import attrgetter
 
 from .tokens import UNKNOWN_TOKEN
 
@@ -47,15 +48,15 @@ class Vocabulary:
 
 def count_tokens(streams) -> tuple[Counter, dict[str, Counter]]:
     """Occurrence counts of token texts, and for each text how often each kind lexed it."""
+    pairs: Counter = Counter()
+    text_and_kind = attrgetter("text", "kind")
+    for tokens in streams:
+        pairs.update(map(text_and_kind, tokens))
     counts: Counter = Counter()
     kinds: dict[str, Counter] = {}
-    for tokens in streams:
-        counts.update(t.text for t in tokens)
-        for t in tokens:
-            kind_counts = kinds.get(t.text)
-            if kind_counts is None:
-                kind_counts = kinds[t.text] = Counter()
-            kind_counts[t.kind] += 1
+    for (text, kind), count in pairs.items():
+        counts[text] += count
+        kinds.setdefault(text, Counter())[kind] += count
     return counts, kinds
 
 

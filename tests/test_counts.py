@@ -1,6 +1,8 @@
 """Leave-one-file-out: a file scored without its own share of the tables scores exactly as under
 tables built without the file (real standard-library modules)."""
 
+import hashlib
+
 import numpy as np
 import pytest
 
@@ -18,7 +20,8 @@ MODULES = ["textwrap.py", "shlex.py", "fnmatch.py", "glob.py", "bisect.py", "col
 @pytest.fixture(scope="module")
 def small_corpus():
     from cognomen.model.corpus import analyse
-    return [analyse((STDLIB / name).read_text(encoding="utf-8"), name, "python") for name in MODULES]
+    texts = {name: (STDLIB / name).read_text(encoding="utf-8") for name in MODULES}
+    return [analyse(text, name, "python", hashlib.sha256(text.encode()).hexdigest()) for name, text in texts.items()]
 
 
 def tables_from(files, vocabulary):
@@ -91,3 +94,36 @@ def test_an_index_updated_for_one_changed_file_equals_a_rebuild(small_corpus):
             continue
         found = {n: counts.get(n) for n in expected} if counts is not None else {}
         assert found == pytest.approx(dict(expected)), cue
+
+
+def test_a_warm_retrain_learns_embeddings_from_the_changed_files_only(small_corpus):
+    """Continuing from last week's vectors: a token seen only in unchanged files keeps its input
+    vector exactly (CBOW moves only the context tokens of the text it reads), tokens of the
+    changed file move, a token new to the vocabulary gets a vector, and an unchanged corpus
+    keeps every vector."""
+    from cognomen.model.corpus import analyse
+    from cognomen.model.reuse import PreviousVectors
+    from cognomen.model.training import TrainSettings, train_embeddings
+
+    settings = TrainSettings(vector_size=16, epochs=2, warm_epochs=2, workers=1)
+    vocabulary = build_vocabulary(*count_tokens(f.tokens for f in small_corpus), min_count=1)
+    inputs, outputs = train_embeddings(small_corpus, vocabulary, settings)
+    learned = {f.path: f.digest for f in small_corpus}
+    assert all(learned.values())
+    previous = PreviousVectors(vocabulary.tokens, inputs, outputs, learned)
+
+    same_inputs, _ = train_embeddings(small_corpus, vocabulary, settings, previous=previous)
+    assert np.array_equal(same_inputs, inputs)
+
+    changed_text = (STDLIB / "bisect.py").read_text(encoding="utf-8") + "\ndef halfway_marker(lo, hi):\n    return lo\n"
+    changed = analyse(changed_text, "bisect.py", "python", hashlib.sha256(changed_text.encode()).hexdigest())
+    files = [changed if f.path == "bisect.py" else f for f in small_corpus]
+    new_vocabulary = build_vocabulary(*count_tokens(f.tokens for f in files), min_count=1)
+    new_inputs, _ = train_embeddings(files, new_vocabulary, settings, previous=previous)
+    in_changed = {t.text for t in changed.tokens}
+    elsewhere = {t.text for f in small_corpus if f.path != "bisect.py" for t in f.tokens} - in_changed
+    row = vocabulary.index
+    assert elsewhere and all(np.array_equal(new_inputs[new_vocabulary.index[token]], inputs[row[token]])
+                             for token in elsewhere)
+    assert not np.array_equal(new_inputs[new_vocabulary.index["hi"]], inputs[row["hi"]])
+    assert np.abs(new_inputs[new_vocabulary.index["halfway_marker"]]).sum() > 0

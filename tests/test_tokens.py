@@ -1,5 +1,7 @@
 """Lexing and identifier splitting."""
 
+from pathlib import Path
+
 import pytest
 
 from cognomen.model.languages import language_for_path, lex
@@ -58,3 +60,27 @@ def test_language_from_file_name_only():
     assert language_for_path("c.go") == "go"
     assert language_for_path("README.md") is None
     assert language_for_path("Makefile") is None
+
+
+def test_language_by_file_name_agrees_with_pygments_on_real_names():
+    """The per-pattern shortcut gives pygments' own answer: checked against pygments'
+    get_lexer_for_filename on every file name under the running Python's standard library
+    and on names its patterns treat specially."""
+    import sysconfig
+
+    from pygments.lexers import get_lexer_for_filename
+    from pygments.util import ClassNotFound
+
+    from cognomen.model.languages import _BY_LEXER
+
+    def pygments_says(name):
+        try:
+            return _BY_LEXER.get(get_lexer_for_filename(name).name)
+        except ClassNotFound:
+            return None
+
+    names = {path.name for path in Path(sysconfig.get_paths()["stdlib"]).rglob("*")}
+    names |= {"a.d.ts", "b.mts", "c.h", "d.hpp", "e.cc", "f.cs", "g.rs", "h.go", "I.java", "j.mjs", "k.pyi",
+              "l.pyw", "Makefile", "CMakeLists.txt", "bashrc", "x.1", "SConstruct", "noextension", "m.PY"}
+    assert len(names) > 1000
+    assert {name: language_for_path(name) for name in names} == {name: pygments_says(name) for name in names}

@@ -29,17 +29,52 @@ def get_language(name: str) -> Language:
     return LANGUAGES[name]
 
 
-@functools.lru_cache(maxsize=256)
 def language_for_path(path: str) -> str | None:
-    """Language id from a file name alone (never from its content), or None when unsupported."""
-    from pygments.lexers import get_lexer_for_filename
-    from pygments.util import ClassNotFound
+    """Language id from a file name alone (never from its content), or None when unsupported.
 
-    try:
-        lexer = get_lexer_for_filename(path)
-    except ClassNotFound:
-        return None
-    return _BY_LEXER.get(lexer.name)
+    Pygments decides by which of its lexers' file-name patterns match; the answer is the same
+    for every name that matches the same patterns, so it is worked out once per set of patterns."""
+    name = path.rsplit("/", 1)[-1]
+    suffixes, unusual = _filename_patterns()
+    if unusual.match(name):
+        return _language_for_name(name)  # Makefile, *.[1-9], bashrc...: rare, asked of pygments
+    extension = "." + name.rsplit(".", 1)[-1] if "." in name else ""
+    matched = tuple(suffix for suffix in suffixes.get(extension, ()) if name.endswith(suffix))
+    if matched not in _BY_SUFFIXES:
+        _BY_SUFFIXES[matched] = _language_for_name(name)
+    return _BY_SUFFIXES[matched]
+
+
+_BY_SUFFIXES: dict[tuple[str, ...], str | None] = {}
+
+
+@functools.cache
+def _filename_patterns():
+    """Pygments' file-name patterns: `*.ext` suffixes by their last extension, and one expression
+    matching any of the others."""
+    import fnmatch
+    import re
+
+    from pygments.lexers import LEXERS
+
+    suffixes: dict[str, set[str]] = {}
+    unusual = []
+    for _, _, _, patterns, _ in LEXERS.values():
+        for pattern in patterns:
+            tail = pattern[1:]
+            if pattern.startswith("*") and "." in tail and not any(c in tail for c in "*?["):
+                suffixes.setdefault("." + tail.rsplit(".", 1)[-1], set()).add(tail)
+            else:
+                unusual.append(fnmatch.translate(pattern))
+    return {key: tuple(sorted(found)) for key, found in suffixes.items()}, re.compile("|".join(unusual) or "(?!)")
+
+
+@functools.lru_cache(maxsize=256)
+def _language_for_name(name: str) -> str | None:
+    from pygments.lexers import find_lexer_class_for_filename
+
+    lexer = find_lexer_class_for_filename(name)
+    return _BY_LEXER.get(lexer.name) if lexer is not None else None
 
 
 def lex(text: str, language: str, keep_comments: bool = False, raw: bool = False) -> list[Token]:
