@@ -57,10 +57,13 @@ def main() -> int:
         show("cognomen review  (a prepared change plants three odd names: the average moisture stored in `flag`, "
              "the dry readings collected in `schedule`, and a valve called `zone`)", review)
         print(f"review exit code: {review.returncode} (1: the change introduced odd names)")
-        # The threshold was calibrated on only about 2,300 lines of Python; the planted names are the
-        # change's three oddest, and a lower threshold shows each with the team's name for it.
-        show("cognomen review --threshold 2  (the same change, flagged above oddness 2 instead of the calibrated "
-             "threshold)", run("review", "--threshold", "2", cwd=repo))
+        # Only `zone` is flagged: the team names the items of `open_valves()` a `valve` in three places, and
+        # the collection's word agrees. The other two planted names contradict no such habit, so they are
+        # not flagged (flags of that kind were mostly false alarms on real code), but the team's names for
+        # them are one request away.
+        show("cognomen suggest fernhill/readings.py:157:9 fernhill/readings.py:165:5  (the other two planted "
+             "names: not flagged, since no collection's naming contradicts them, but the team's names on request)",
+             run("suggest", "fernhill/readings.py:157:9", "fernhill/readings.py:165:5", cwd=repo))
     return 0
 
 

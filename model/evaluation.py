@@ -142,7 +142,7 @@ def _tally(tallies: dict[str, Tally], scorer: Scorer, ranking, allowed, name, va
         value = -1e9 if oddness is None else oddness
         (tallies[scorer_name].clean if clean else tallies[scorer_name].seeded).append(value)
     if math.isfinite(limit):
-        over = -1e9 if model_oddness is None or not flaggable(fit, name) else model_oddness - limit
+        over = -1e9 if model_oddness is None or not flaggable(fit, name, ranking.flow, tables.flags_need_contradiction) else model_oddness - limit
         (tallies["model"].clean_over if clean else tallies["model"].seeded_over).append(over)
     if truth is None:
         return

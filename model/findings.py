@@ -112,7 +112,7 @@ def check_source(scorer: Scorer, source: SourceFile, threshold: float | None = N
     findings = []
     variables = [v for v in source.variables if v.name not in IGNORED_NAMES]
     if flagged_only:
-        variables = [v for v in variables if scorer.may_be_flagged(source, v)]
+        variables = scorer.contradicted_only(source, [v for v in variables if scorer.may_be_flagged(source, v)])
     suggest_above = limit if flagged_only else None
     if cache is not None:
         judgements = cache.judge(scorer, source, variables, suggest_above)

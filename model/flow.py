@@ -358,6 +358,7 @@ class Flow:
         self._own = own = frozenset(index_cues(self.cues))
         self._own_given = [counts for cue, counts in self.given if cue in own]
         self._implied_parts = {name: frozenset(split_identifier(name)) for name in self.implied}
+        self._top_two: list | None = None
 
     def fit(self, name: str) -> float:
         """How much likelier the names given at the variable's own cues make this name than its
@@ -409,7 +410,8 @@ class Flow:
         if not names:
             return rows
         if self.given:
-            counts = np.array([[counts.get(name) for name in names] for _, counts in self.given]).T
+            counts = np.array([_counts_of(counts, names) for _, counts in self.given]).T
+            counts[counts <= 1e-6] = 0.0  # as CueCounts.get
             totals = np.array([counts.total for _, counts in self.given])
             rows[:, 0] = (counts / totals).max(axis=1)
             rows[:, 1] = np.log1p(counts.sum(axis=1))
@@ -430,26 +432,66 @@ class Flow:
                                             default=0.0)
         return rows
 
+    def _tops(self) -> list[tuple[list[tuple[str, float]], float]]:
+        """Each cue's two most common allowed names and its total, worked out once."""
+        if self._top_two is None:
+            self._top_two = [(counts.top(2, self.allowed), counts.total) for _, counts in self.given]
+        return self._top_two
+
     def best_other_share(self, name: str) -> float:
         """The largest share any other name has at any cue."""
         best = 0.0
-        for _, counts in self.given:
-            for other, count in counts.top(2, self.allowed):
+        for top, total in self._tops():
+            for other, count in top:
                 if other != name:
-                    best = max(best, count / counts.total)
+                    best = max(best, count / total)
                     break
         return best
 
     def peak(self) -> tuple[str | None, float]:
         """The name the team gives most consistently at one of the cues (at least 3 names there)."""
         best, best_share = None, 0.0
-        for _, counts in self.given:
-            if counts.total < 3:
+        for top, total in self._tops():
+            if total < 3:
                 continue
-            top = counts.top(1, self.allowed)
-            if top and top[0][1] / counts.total > best_share:
-                best, best_share = top[0][0], top[0][1] / counts.total
+            if top and top[0][1] / total > best_share:
+                best, best_share = top[0][0], top[0][1] / total
         return best, best_share
+
+    def contradiction(self, name: str) -> tuple[str, str, float] | None:
+        """(other name, cue, the team's share of `other` there) when the variable is an element of a
+        collection and both the team and the collection's own word call such elements `other`: in
+        at least MIN_CONTRADICTING places and most of the names the team gives there (`for constraint
+        in model._meta.indexes`, where the team says `index` in 12 places).
+
+        Never when `name` is given at any of the variable's cues or named by their words, nor when
+        it is a form of `other` (`req` for `request`, `frames` for `frame`) or a shortening of the
+        collection's word (`lopt` for `long_opts`). None when nothing contradicts it."""
+        if name in self.implied or any(counts.get(name) for _, counts in self.given):
+            return None
+        by_cue = dict(zip((cue for cue, _ in self.given), self._tops()))
+        found = None
+        for cue in index_cues(self.cues):
+            if not _names_value(cue):
+                continue
+            word = cue.partition(":")[2]
+            said = [other for other, cues in self.implied.items() if cue in cues and len(other.strip("_")) >= 3]
+            top, total = by_cue.get(cue, ([], 0.0))
+            if not said or not top or top[0][1] < MIN_CONTRADICTING or _shortens_words(name, word):
+                continue
+            other, count = top[0]
+            share = count / total
+            if share >= CONTRADICTING_SHARE and len(other.strip("_")) >= 3 and \
+                    any(same_word(other, implied) for implied in said) and not same_word(name, other) and \
+                    (found is None or share > found[2]):
+                found = (other, cue, share)
+        return found
+
+    def reason_at(self, cue: str, name: str) -> str:
+        """What one of the variable's cues says of a name, in words."""
+        counts = next((counts for given_cue, counts in self.given if given_cue == cue), None)
+        kind, _, word = cue.partition(":")
+        return describe(kind, word, name, int(round(counts.get(name))) if counts is not None else 0)
 
     def reason(self, name: str) -> tuple[str, str]:
         """Why the cues back a name, in words ("callers pass `invoice` here", "`frames.get(...)` gives a
@@ -467,6 +509,66 @@ class Flow:
             kind, _, word = cue.partition(":")
             return describe(kind, word, name, 0), ""
         return "", ""
+
+
+# How much of the team's naming at a cue must agree before it contradicts a name (see Flow.contradiction):
+# this many places, and this share of the names given there.
+MIN_CONTRADICTING = 3.0
+CONTRADICTING_SHARE = 0.5
+# Cues that may contradict a name. Read by reviewers on two real packages (Django, golang.org/x/net):
+# flags from the items of a collection, where the team and the collection's word agree, were good
+# catches nearly every time; from a callee, an attribute, a receiver or a key, a descriptive name
+# traded for the team's habit (`outerq` for `query`) as often as not; from the collection's word
+# alone, or two cues' words, false alarms mostly (`for name in families`, a map's keys).
+CONTRADICTING_KINDS = frozenset({"iterated"})
+
+
+def _names_value(cue: str) -> bool:
+    """Whether a cue may contradict a name: of CONTRADICTING_KINDS, its word telling something
+    (three letters or more, not `self` or `data`)."""
+    kind, _, word = cue.partition(":")
+    return kind in CONTRADICTING_KINDS and word not in _NOTHING and len(word.strip("_")) >= 3
+
+
+def same_word(name: str, other: str) -> bool:
+    """Whether two names share a word, one a shortening of the other's (`req` of `request`, `dst` of
+    `destination`, `frame` of `frames`): a reviewer reads them as the same name."""
+    parts, others = split_identifier(name), split_identifier(other)
+    return any(_shortens(a, b) or _shortens(b, a) for a in parts for b in others)
+
+
+def _shortens_words(name: str, word: str) -> bool:
+    """`name` is made of the starts of `word`'s parts, in order (`lopt` of `long_opts`, `sopt` of
+    `short_opts`)."""
+    letters = name.lower().strip("_")
+    parts = [part for part in split_identifier(word) if part]
+
+    def match(at: int, part: int) -> bool:
+        if at == len(letters):
+            return True
+        if part == len(parts):
+            return False
+        piece = parts[part]
+        for size in range(min(len(piece), len(letters) - at), 0, -1):
+            if letters[at:at + size] == piece[:size] and match(at + size, part + 1):
+                return True
+        return match(at, part + 1)
+
+    return bool(letters) and bool(parts) and match(0, 0)
+
+
+def _shortens(short: str, long: str) -> bool:
+    """`short` is `long` or keeps its first letter and some of the rest in order."""
+    if not short or not long or short[0] != long[0] or len(short) > len(long):
+        return False
+    letters = iter(long)
+    return all(letter in letters for letter in short)
+
+
+def _counts_of(counts: CueCounts, names: list[str]) -> list[float]:
+    """counts.get of each name, before the threshold (features_many applies it to all at once)."""
+    given, delta = counts.counts.get, counts.delta.get
+    return [given(name, 0.0) + delta(name, 0.0) for name in names]
 
 
 def describe(kind: str, word: str, name: str, count: int) -> str:

@@ -29,6 +29,7 @@ def save(store: Path, trained: TrainedModel, manifest: dict, refused: bool = Fal
                   "evidence_paths": tables.evidence_paths, "total_occurrences": tables.total_occurrences,
                   "variables_per_language": tables.variables_per_language, "positional": tables.positional,
                   "trained_files": dict(sorted(tables.trained_files.items())), "min_count": tables.min_count,
+                  "flags_need_contradiction": tables.flags_need_contradiction,
                   "classes": tables.classes},
     }
     documents["flow"], flow_arrays = tables.flow.stored()
@@ -63,6 +64,7 @@ def scorer_from_bundle(loaded: store_files.Bundle) -> Scorer:
             flow=FlowIndex.from_stored(loaded.documents["flow"], arrays),
             trained_files={str(path): str(digest) for path, digest in names["trained_files"].items()},
             min_count=int(names["min_count"]),
+            flags_need_contradiction=bool(names.get("flags_need_contradiction", False)),
             classes=dict(names["classes"]),
             **{name: arrays[name] for name in _TABLE_ARRAYS},
         )

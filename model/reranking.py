@@ -69,7 +69,7 @@ def shortlist_features(tables: NameTables, ranking: Ranking, allowed: np.ndarray
         np.zeros(len(top)), np.log1p(np.arange(len(top))), count - best_count, embedding - best_embedding,
         tables.name_parts[table_rows], [1.0 if name in ranking.context_identifiers else 0.0 for name in names],
     ]).reshape(len(top), len(TABLE_FEATURES))
-    features = []
+    features, totals = [], []
     listed = set(names)
     for name in flow_names(tables, ranking, bound, current):
         if name in listed:
@@ -86,11 +86,16 @@ def shortlist_features(tables: NameTables, ranking: Ranking, allowed: np.ndarray
             count, embedding, lexical = _unseen_scores(tables, ranking, name, weights)
             total = weights.counts * count + weights.embedding * embedding + weights.lexical * lexical
             name_count = 0.0
-        rank = int((combined > total).sum())
         names.append(name)
         rows.append(row)
-        features.append(_row(count, embedding, lexical, total, name_count, row is None, rank, best_count,
+        totals.append(total)
+        features.append(_row(count, embedding, lexical, total, name_count, row is None, 0, best_count,
                              best_embedding, name, ranking))
+    if features:
+        # Each flow name's rank among the allowed table names, in one comparison.
+        ranks = (combined[None, :] > np.array(totals)[:, None]).sum(axis=1)
+        for row_features, rank in zip(features, ranks.tolist()):
+            row_features[6] = math.log1p(rank)
     matrix = np.vstack([table_part, np.array(features, dtype=np.float64).reshape(len(features), len(TABLE_FEATURES))])
     flow = ranking.flow
     flow_part = flow.features_many(names) if flow is not None else np.zeros((len(names), len(FLOW_FEATURES)))

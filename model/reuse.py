@@ -20,7 +20,7 @@ from pathlib import Path
 import numpy as np
 
 REUSE_SHARE = 0.05
-_FORMAT = 2
+_FORMAT = 3
 
 
 @dataclass
@@ -74,7 +74,7 @@ class ExampleStore:
                 bounds = np.concatenate([[0], np.cumsum(sizes)]).astype(np.int64)
                 shortlists = [(rows[a:b], truths[a:b]) for a, b in zip(bounds[:-1], bounds[1:])]
                 found = FileExamples(stored["features"], stored["labels"], stored["flaggable"], shortlists,
-                                     stored["recovered_at"].tolist())
+                                     stored["recovered_at"].tolist(), stored["contradicted"])
         except (OSError, KeyError, ValueError):
             return None
         self.reused += 1
@@ -90,6 +90,7 @@ class ExampleStore:
             self.directory.mkdir(parents=True, exist_ok=True)
             temporary = self.directory / f".{source.digest}.{os.getpid()}.npz"
             np.savez(temporary, features=examples.features, labels=examples.labels, flaggable=examples.flaggable,
+                     contradicted=examples.contradicted,
                      shortlist_sizes=np.array([len(rows) for rows, _ in examples.shortlists], dtype=np.int64),
                      shortlist_rows=np.vstack([rows for rows, _ in examples.shortlists]) if examples.shortlists
                      else np.zeros((0, width)),
@@ -119,9 +120,9 @@ class ExampleStore:
 
 def examples_key(settings_data: dict, features: tuple[str, ...], background: list[str]) -> str:
     """What a file's examples depend on besides the files themselves."""
-    # The flag budget and the embeddings' epochs leave examples as they are.
+    # The flag budget, which names may be flagged and the embeddings' epochs leave examples as they are.
     relevant = {key: value for key, value in settings_data.items()
-                if key not in ("flag_budget", "epochs", "warm_epochs")}
+                if key not in ("flag_budget", "flag_contradictions_only", "epochs", "warm_epochs")}
     text = json.dumps({"settings": relevant, "features": list(features), "background": background,
                        "format": _FORMAT}, sort_keys=True)
     return hashlib.sha256(text.encode()).hexdigest()[:16]

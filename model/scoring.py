@@ -60,6 +60,7 @@ class NameTables:
     trained_files: dict[str, str] = field(default_factory=dict)  # the team's files the counts include: their hashes
     classes: dict = field(default_factory=dict)  # the team's classes: bases and methods (overrides.py)
     min_count: int = 2  # the vocabulary's minimum count
+    flags_need_contradiction: bool = False  # flag only names the team's naming at a cue contradicts
 
     def raw_counts(self, language: str):
         """Context counts (features x this language's candidates) as a sparse matrix, built on first use."""
@@ -451,13 +452,17 @@ class NameFit:
 MIN_FLAGGED_LENGTH = 3
 
 
-def flaggable(fit: NameFit | None, name: str) -> bool:
+def flaggable(fit: NameFit | None, name: str, flow: Flow | None = None, need_contradiction: bool = False) -> bool:
     """Whether a name may be flagged: longer than shorthand, and either a name the team uses
     elsewhere or a single word (`flag`). A compound the team has never used for a variable
-    (`extracted_path`) was spelled out on purpose: judged by its parts for suggestions, never flagged."""
+    (`extracted_path`) was spelled out on purpose: judged by its parts for suggestions, never flagged.
+    With `need_contradiction`, only where the team's names at one of the variable's cues say
+    otherwise (Flow.contradiction): a flag a reviewer can check against the team's code."""
     if fit is None or len(name.strip("_")) < MIN_FLAGGED_LENGTH:
         return False
-    return fit.known or len(split_identifier(name)) == 1
+    if not (fit.known or len(split_identifier(name)) == 1):
+        return False
+    return not need_contradiction or (flow is not None and flow.contradiction(name) is not None)
 
 
 def name_fit(tables: NameTables, ranking: Ranking, name: str, weights: Weights | None = None) -> NameFit | None:
@@ -650,6 +655,20 @@ class Scorer:
             return False
         return not self.dictated(source, variable)
 
+    def contradicted_only(self, source: SourceFile, variables: list[Variable]) -> list[Variable]:
+        """Of `variables`, those a model that flags only contradicted names could flag: the ones the
+        team's naming at a cue contradicts (Flow.contradiction), found from the flow alone, under
+        the view scoring would take. A model that flags any name keeps them all."""
+        if not self.tables.flags_need_contradiction:
+            return variables
+        trained = bool(source.digest) and self.tables.trained_files.get(source.path) == source.digest
+        view = FlowView(self.tables.flow) if trained else \
+            FlowView(self.tables.flow, None, file_flow(source.variables))
+        style = self.tables.styles.get(source.language, get_language(source.language).naming_style)
+        reserved = reserved_words(source.language)
+        return [v for v in variables if v.cues and variable_flow(
+            v, view, style, _name_filter(v, reserved), 1.0).contradiction(v.name) is not None]
+
     def dictated(self, source: SourceFile, variable: Variable) -> str:
         """Why a variable's name is not the team's to choose, or "": then it is never flagged."""
         if variable.dictated or variable.kind != "parameter" or not variable.owner:
@@ -682,7 +701,30 @@ class Scorer:
         suggestions = []
         if suggest_above is None or (oddness is not None and oddness > suggest_above):
             suggestions = self.suggestions(ranking, allowed, limit, variable.bound_names, variable.name)
-        return Judgement(variable, oddness, suggestions, features, flaggable=flaggable(fit, variable.name))
+        may_flag = flaggable(fit, variable.name, ranking.flow, self.tables.flags_need_contradiction)
+        if may_flag and suggestions and self.tables.flags_need_contradiction:
+            # A flag is about the name its cue gives: when that name cannot be offered, no flag.
+            suggestions, may_flag = self._contradicting_first(suggestions, ranking, allowed, variable.name, limit)
+        return Judgement(variable, oddness, suggestions, features, flaggable=may_flag)
+
+    def _contradicting_first(self, suggestions: list[Suggestion], ranking: Ranking, allowed: np.ndarray,
+                             name: str, limit: int) -> tuple[list[Suggestion], bool]:
+        """A flag's first suggestion is the name its contradicting cue gives, with that cue as the reason;
+        (the suggestions, whether that name could be offered)."""
+        other, cue, _ = ranking.flow.contradiction(name)
+        found = next((s for s in suggestions if s.name == other), None)
+        if found is None:
+            row = self.tables.row_by_name.get((ranking.language, other))
+            if row is not None and not allowed[int(np.searchsorted(ranking.rows, row))]:
+                return suggestions, False
+            found = self._backed(other, suggestions[0].score, row, ranking)
+            if found is None:
+                return suggestions, False
+        # Its reason is the cue that contradicts the name, with places where the team names it so.
+        places = [place for place in self.tables.flow.places.get((cue, other), []) if not _is_own(place, ranking.own_place)]
+        found = Suggestion(found.name, found.score, (places + [p for p in found.evidence if p not in places])[:3],
+                           ranking.flow.reason_at(cue, other))
+        return [found] + [s for s in suggestions if s.name != other][:limit - 1], True
 
     def suggestions(self, ranking: Ranking, allowed: np.ndarray, limit: int,
                     bound: frozenset[str] = frozenset(), current: str = "") -> list[Suggestion]:

@@ -39,7 +39,8 @@ def _occurrence_cues(tokens: list[Token], j: int, variable, variable_at, languag
     after = tokens[j + 1].text if j + 1 < count else ""
     cues: list[str] = []
     if after in language.assignment_operators and before != "," and (j + 2 < count):
-        cues.extend(right_hand_side(tokens, j + 2, variable, variable_at, language.call_markers))
+        cues.extend(right_hand_side(tokens, j + 2, variable, variable_at, language.call_markers,
+                                    language.passing_methods))
     loop = _loop_cues(tokens, j, language, variable_at, variable) if j == variable.occurrences[0] else []
     cues.extend(loop)
     binding = j == variable.occurrences[0]  # a binding is never an argument, `if let Some(last) = ...` included
@@ -86,7 +87,8 @@ def name_chain(tokens: list[Token], k: int, separators: tuple[str, ...] = (".", 
 
 
 def right_hand_side(tokens: list[Token], k: int, variable, variable_at,
-                    call_markers: frozenset[str] = frozenset({"(", "{"})) -> list[str]:
+                    call_markers: frozenset[str] = frozenset({"(", "{"}),
+                    passing: frozenset[str] = frozenset()) -> list[str]:
     """Cues of the value bound at k: `open_session(...)`, `self.frames.get(...)`, `config.timeout`, `rows[i]`."""
     count = len(tokens)
     while k < count and tokens[k].text in ("new", "await", "&", "*", "try", "mut"):
@@ -97,6 +99,8 @@ def right_hand_side(tokens: list[Token], k: int, variable, variable_at,
     last = chain[-1]
     following = tokens[last + 1].text if last + 1 < count else ""
     cues = []
+    if following == "(" and _continues_after_call(tokens, last + 1, passing):
+        return []  # `NewEncoder(w).Encode(v)`: the value is what the chain ends with, not NewEncoder's
     if following in call_markers:
         cues.append(f"call:{tokens[last].text}")
         if len(chain) > 1:
@@ -109,6 +113,29 @@ def right_hand_side(tokens: list[Token], k: int, variable, variable_at,
     elif len(chain) > 1 and (following in _ENDS or tokens[last + 1].line != tokens[last].line):
         cues.append(f"attribute:{tokens[last].text}")
     return cues
+
+
+def _continues_after_call(tokens: list[Token], opening: int, passing: frozenset[str] = frozenset()) -> bool:
+    """Whether the call whose `(` is at `opening` is followed by more of the expression (`.x`, `[i]`,
+    `(...)`), other than methods that hand its value on (`passing`: Rust's `.unwrap()`)."""
+    while True:
+        depth, closing = 0, None
+        for k in range(opening, len(tokens)):
+            if tokens[k].text in ("(", "[", "{"):
+                depth += 1
+            elif tokens[k].text in (")", "]", "}"):
+                depth -= 1
+                if depth == 0:
+                    closing = k
+                    break
+        if closing is None or closing + 1 >= len(tokens):
+            return False
+        after = tokens[closing + 1].text
+        if after == "." and closing + 3 < len(tokens) and tokens[closing + 2].text in passing and \
+                tokens[closing + 3].text == "(":
+            opening = closing + 3
+            continue
+        return after in (".", "[", "(", "->", "::")
 
 
 def _loop_cues(tokens: list[Token], j: int, language, variable_at, variable) -> list[str]:

@@ -57,6 +57,7 @@ class TrainSettings:
     use_detector: bool = True
     use_reranker: bool = True
     use_flow: bool = True  # name flow: where values come from and go (flow.py)
+    flag_contradictions_only: bool = True  # flag only names the team's naming at a cue contradicts
     background_weight: float = 0.3  # how much a background corpus file counts against a team file
 
     @property
@@ -249,13 +250,24 @@ def renamed_variable(variable: Variable, new_name: str) -> Variable:
 
 
 def calibrate_by_files(oddness_clean: np.ndarray, files: np.ndarray, file_lines: np.ndarray, budget: float,
-                       confidence: float = 0.95, resamples: int = 200, seed: int = 1) -> float:
+                       confidence: float = 0.95, resamples: int = 200, seed: int = 1,
+                       floor: float | None = None) -> float:
     """The lowest threshold whose flags per 1,000 lines stay within budget in `confidence` of
     bootstrap resamples of whole files: odd-looking names cluster in a few files, so a
-    threshold fitted to one sample of files flags more on the next."""
+    threshold fitted to one sample of files flags more on the next.
+
+    With a `floor` (below every oddness), flagging every name that can be flagged is a candidate
+    too: where flaggable names are rare, the budget may hold with no threshold at all."""
     if len(oddness_clean) == 0:
-        return 0.0
-    candidates = np.unique(np.quantile(oddness_clean, np.linspace(0.9, 1.0, 201)))
+        if floor is None:
+            raise ValueError("no clean names to calibrate on")
+        return floor
+    # Fine steps over the top tenth, where a budget of about one flag per 1,000 lines usually falls;
+    # coarser below, for when few names can be flagged at all.
+    candidates = np.unique(np.quantile(oddness_clean, np.concatenate([np.linspace(0.0, 0.9, 181),
+                                                                      np.linspace(0.9, 1.0, 201)])))
+    if floor is not None:
+        candidates = np.concatenate([[floor], candidates])
     flags = np.zeros((len(file_lines), len(candidates)))
     for file_number in np.unique(files):
         values = oddness_clean[files == file_number]
@@ -303,6 +315,7 @@ class Examples:
     features: list[np.ndarray] = field(default_factory=list)
     labels: list[int] = field(default_factory=list)
     flaggable: list[bool] = field(default_factory=list)
+    contradicted: list[bool] = field(default_factory=list)  # see Flow.contradiction
     example_files: list[int] = field(default_factory=list)  # which sampled file each example came from
     recovered_at: list[int] = field(default_factory=list)  # rank of the true name, per seeded misname
     shortlists: list[tuple[np.ndarray, np.ndarray]] = field(default_factory=list)  # re-ranking rows and labels
@@ -346,6 +359,7 @@ class FileExamples:
     flaggable: np.ndarray  # (n,) whether the name could be flagged at all (scoring.flaggable)
     shortlists: list[tuple[np.ndarray, np.ndarray]]  # re-ranking rows and which row is the true name
     recovered_at: list[int]  # rank of the true name by the combined score, per shortlist
+    contradicted: np.ndarray | None = None  # (n,) whether the team's naming at a cue contradicts the name
 
 
 def file_examples(tables: NameTables, source: SourceFile, share: FileCounts, seed: int,
@@ -353,7 +367,7 @@ def file_examples(tables: NameTables, source: SourceFile, share: FileCounts, see
     """A file's real variables and one seeded misname each, scored without the file's own share of the counts.
     The seeded names depend on the file alone (and the seed), so a file's examples can be kept for reuse."""
     rng = random.Random(f"{seed}:{source.path}")
-    features, labels, shortlists, recovered, usable = [], [], [], [], []
+    features, labels, shortlists, recovered, usable, contradicted = [], [], [], [], [], []
     judged = judged_variables(tables, source)
     if judged:
         holdout, ids = forget_file(tables, source, share.weight, share=share)
@@ -367,6 +381,7 @@ def file_examples(tables: NameTables, source: SourceFile, share: FileCounts, see
                 features.append(detection_features(tables, ranking, allowed, fit, variable.name, variable))
                 labels.append(0)
                 usable.append(flaggable(fit, variable.name))
+                contradicted.append(_contradicted(ranking, variable.name))
             wrong = seed_misname(source, variable, rng, local_names)
             if wrong is None:
                 continue
@@ -384,8 +399,14 @@ def file_examples(tables: NameTables, source: SourceFile, share: FileCounts, see
                 features.append(detection_features(tables, ranking, allowed, fit, wrong, renamed))
                 labels.append(1)
                 usable.append(flaggable(fit, wrong))
+                contradicted.append(_contradicted(ranking, wrong))
     return FileExamples(np.array(features, dtype=np.float64).reshape(len(features), len(FEATURE_NAMES)),
-                        np.array(labels, dtype=np.int64), np.array(usable, dtype=bool), shortlists, recovered)
+                        np.array(labels, dtype=np.int64), np.array(usable, dtype=bool), shortlists, recovered,
+                        np.array(contradicted, dtype=bool))
+
+
+def _contradicted(ranking, name: str) -> bool:
+    return ranking.flow is not None and ranking.flow.contradiction(name) is not None
 
 
 def collect_examples(tables: NameTables, files: list[SourceFile], shares: dict[str, FileCounts], seed: int,
@@ -417,6 +438,8 @@ def collect_examples(tables: NameTables, files: list[SourceFile], shares: dict[s
         examples.features.extend(found.features)
         examples.labels.extend(found.labels.tolist())
         examples.flaggable.extend(found.flaggable.tolist())
+        examples.contradicted.extend(found.contradicted.tolist() if found.contradicted is not None
+                                     else [False] * len(found.labels))
         examples.example_files.extend([file_number] * len(found.labels))
         examples.shortlists.extend(found.shortlists)
         examples.recovered_at.extend(found.recovered_at)
@@ -517,6 +540,7 @@ def train(corpus: Corpus, settings: TrainSettings, progress=None, background: Co
         tables = build_tables(list(shares.values()), sources, vocabulary, inputs, outputs,
                               settings.names_per_language, settings.positional_counts, settings.seed, background_paths)
         tables.min_count = settings.min_count
+        tables.flags_need_contradiction = settings.flag_contradictions_only and settings.use_flow
         tables.trained_files = {f.path: f.digest for f in corpus.files}
         tables.classes = repository_classes(corpus.files)
         if settings.use_flow:
@@ -593,6 +617,10 @@ def calibrate_model(examples: Examples, corpus: Corpus, settings: TrainSettings,
     report: dict[str, dict] = {}
     example_files = np.array(examples.example_files, dtype=np.int64)
     usable = np.array(examples.flaggable, dtype=bool)
+    every_flaggable = usable
+    gated = settings.flag_contradictions_only and settings.use_flow
+    if gated:
+        usable = usable & np.array(examples.contradicted, dtype=bool)
     file_lines = np.array(examples.file_lines, dtype=np.int64)
     file_languages = np.array(examples.file_languages, dtype=object)
     team = np.array(examples.team, dtype=bool)
@@ -606,13 +634,19 @@ def calibrate_model(examples: Examples, corpus: Corpus, settings: TrainSettings,
         in_language = (file_languages[example_files] == language) & team[example_files] if len(labels) else \
             np.zeros(0, bool)
         clean = in_language & (labels == 0) & usable  # a name that can never be flagged is no false alarm
-        if not clean.any() or not (in_language & (labels == 1)).any():
+        if not (in_language & (labels == 0) & every_flaggable).any() or not (in_language & (labels == 1)).any():
             entry["suggestions_only"] = f"no {language} variables could be scored to calibrate on"
             continue
         sampled_files = np.flatnonzero((file_languages == language) & team)
         numbering = {number: position for position, number in enumerate(sampled_files)}
+        # Only contradicted names can be flagged, and they are rare in clean code: where flagging every
+        # one keeps within the budget, there is no higher threshold to set.
+        floor = float(oddness[in_language].min()) - 1.0 if gated else None
         threshold = calibrate_by_files(oddness[clean], np.array([numbering[f] for f in example_files[clean]]),
-                                       file_lines[sampled_files], settings.flag_budget)
+                                       file_lines[sampled_files], settings.flag_budget, floor=floor)
+        if gated:
+            entry["contradicted_clean_names"] = int(clean.sum())
+            entry["every_contradicted_name"] = floor is not None and threshold == floor
         thresholds[language] = threshold
         entry["threshold"] = round(threshold, 4)
         entry["calibration_lines"] = int(file_lines[sampled_files].sum())

@@ -58,6 +58,15 @@ def stdlib_scorer(stdlib_store):
     return scorer
 
 
+@pytest.fixture()
+def any_odd_scorer(stdlib_scorer):
+    """The session model as `train --flag-any-odd-name` would make it: any name may be flagged, not only
+    names a collection's naming contradicts (for tests that need flags; pass a threshold)."""
+    stdlib_scorer.tables.flags_need_contradiction = False
+    yield stdlib_scorer
+    stdlib_scorer.tables.flags_need_contradiction = True
+
+
 def run_cli(*args: str, cwd: Path | None = None, check: bool = False, input_text: str | None = None,
             timeout: float = 600) -> subprocess.CompletedProcess:
     """The real command line in a subprocess, as a person or CI would run it."""

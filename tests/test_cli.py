@@ -234,3 +234,16 @@ def test_suggest_a_position_outside_the_file_is_a_usage_error(demo_copy):
     end_of_line = run_cli("suggest", f"fernhill/alerts.py:27:{len(lines[26]) + 1}",
                           f"fernhill/alerts.py:{len(lines)}:1", cwd=demo_copy)
     assert end_of_line.returncode == 0, end_of_line.stderr
+
+
+def test_a_team_can_ask_for_flags_on_any_odd_name(workspace, tmp_path):
+    """By default only names a collection's naming contradicts are flagged; `--flag-any-odd-name` flags
+    by oddness alone, and the summary and the model say which."""
+    store = tmp_path / "any"
+    result = run_cli("--model-dir", str(store), "train", "--flag-any-odd-name", cwd=workspace)
+    assert result.returncode == 0, result.stderr
+    assert "python     flags names above" in result.stdout and "contradicts" not in result.stdout
+    manifest = json.loads(next((store / "models").glob("*/manifest.json")).read_text())
+    assert manifest["settings"]["flag_contradictions_only"] is False
+    default = json.loads(next((workspace / ".cognomen" / "models").glob("*/manifest.json")).read_text())
+    assert default["settings"]["flag_contradictions_only"] is True

@@ -86,3 +86,47 @@ def test_features_of_many_names_equal_one_at_a_time():
     many = flow.features_many(names)
     for row, name in zip(many, names):
         assert list(row) == pytest.approx(flow.features(name)), name
+
+
+def test_shortened_forms_read_as_the_same_word():
+    from cognomen.model.flow import _shortens_words, same_word
+
+    assert same_word("req", "request") and same_word("dst", "destination") and same_word("frames", "frame")
+    assert same_word("user_id", "uid") is False and same_word("key", "section") is False
+    assert _shortens_words("lopt", "_long_opts") and _shortens_words("opts", "long_opts")
+    assert not _shortens_words("key", "sections")
+
+
+def contradicting_index():
+    """A team that calls the items of `indexes` an `index` (9 of 10 places), and what
+    `open_session()` gives a `session`."""
+    index = FlowIndex()
+    for _ in range(9):
+        index.add("iterated:indexes", "index")
+        index.add("call:open_session", "session")
+    index.add("iterated:indexes", "idx_entry")
+    for _ in range(5):
+        index.add("iterated:tokens", "key")
+    return index
+
+
+def flow_of(index, name, cues):
+    return variable_flow(Variable(name, "local", [0], 1, 1, cues=cues), FlowView(index), "snake",
+                         lambda other: True)
+
+
+def test_a_loop_variable_is_contradicted_where_the_team_and_the_collections_word_agree():
+    index = contradicting_index()
+    assert flow_of(index, "constraint", ("iterated:indexes",)).contradiction("constraint") == \
+        ("index", "iterated:indexes", 0.9)
+    assert flow_of(index, "idx", ("iterated:indexes",)).contradiction("idx") is None, "a shortening"
+    assert flow_of(index, "idx_entry", ("iterated:indexes",)).contradiction("idx_entry") is None, \
+        "a name the team also gives there"
+    assert flow_of(index, "token", ("iterated:tokens",)).contradiction("token") is None, "the word names it"
+    assert flow_of(index, "secret", ("iterated:tokens",)).contradiction("secret") is None, \
+        "the team says `key` but the word says `token`: no agreement, no flag"
+    assert flow_of(index, "zone", ("iterated:open_valves",)).contradiction("zone") is None, \
+        "the collection's word alone is not enough"
+    assert flow_of(index, "result", ("call:open_session",)).contradiction("result") is None, \
+        "a callee's habit backs suggestions, never a flag"
+    assert flow_of(index, "lopt", ("iterated:_long_opts",)).contradiction("lopt") is None

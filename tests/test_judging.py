@@ -45,6 +45,14 @@ class Box:
     def __eq__(self, zzz_other):
         return zzz_other is self
 
+    def _get_colour(self):
+        return 1
+
+    def _set_colour(self, zzz_colour):
+        print(zzz_colour)
+
+    colour = property(_get_colour, _set_colour)  # the setter passed to property()
+
 
 @overload
 def parse(zzz_text: str) -> int: ...
@@ -68,7 +76,7 @@ def test_dictated_names_are_never_flagged(stdlib_scorer):
     source = analyse(DICTATED, "dictated.py", "python")
     judged = {f.name: f for f in check_source(stdlib_scorer, source, threshold=-math.inf, flagged_only=False)}
     for name, why in (("zzz_odd", "Base.handle"), ("qqq_odd", "Base.handle"), ("zzz_record", "logging.Handler.emit"),
-                      ("zzz_value", "setter"), ("zzz_other", "`__eq__`"), ("zzz_text", "@overload"),
+                      ("zzz_value", "setter"), ("zzz_colour", "setter"), ("zzz_other", "`__eq__`"), ("zzz_text", "@overload"),
                       ("_zzz_unused", "unused"), ("tmp_path", "fixtures"), ("zzz_fixture", "fixtures"),
                       ("monkeypatch", "fixtures")):
         assert not judged[name].flagged, name
@@ -88,7 +96,8 @@ def test_override_and_trait_methods_in_token_languages():
     assert found["zzz"] and not found["yyy"]
 
 
-def test_a_keep_name_comment_silences_check(stdlib_scorer):
+def test_a_keep_name_comment_silences_check(any_odd_scorer):
+    stdlib_scorer = any_odd_scorer
     text = (STDLIB / "textwrap.py").read_text(encoding="utf-8")
     source = analyse(text, "textwrap.py", "python")
     flagged = check_source(stdlib_scorer, source, threshold=-5.0)

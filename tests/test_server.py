@@ -307,6 +307,21 @@ def progress_values(client) -> list:
     return [value for values in client.progress_reports.values() for value in values]
 
 
+BUSIEST_VALVE = """from .valves import Valve, ValveBank
+
+
+def busiest_valve(bank: ValveBank) -> Valve | None:
+    busiest = None
+    most = 0.0
+    for zone in bank.open_valves():
+        minutes = bank.minutes_open(zone.valve_id)
+        if minutes > most:
+            most = minutes
+            busiest = zone
+    return busiest
+"""
+
+
 async def test_first_run_offers_to_train_and_the_hints_follow(tmp_path):
     repo = tmp_path / "fernhill"
     shutil.copytree(DEMO, repo, ignore=shutil.ignore_patterns(".cognomen", "__pycache__", "changes"))
@@ -316,8 +331,10 @@ async def test_first_run_offers_to_train_and_the_hints_follow(tmp_path):
     for module in ("shutil.py", "tarfile.py", "zipfile.py", "configparser.py", "csv.py", "argparse.py"):
         shutil.copy(STDLIB / module, repo / "lib" / module)
     options = {"threshold": -100.0, "reloadSeconds": 0.2}
+    # A valve called `zone` where the team names the items of `open_valves()` a `valve`: a name to flag.
+    (repo / "fernhill" / "busiest.py").write_text(BUSIEST_VALVE)
     async with lsp_client(repo, options=options, answer="Train now") as client:
-        uri = open_document(client, repo / "fernhill" / "alerts.py")
+        uri = open_document(client, repo / "fernhill" / "busiest.py")
         assert list(await diagnostics_for(client, uri)) == [], "no model yet"
         diagnostics = []
         for _ in range(20):  # each publish after the first: until the trained model's hints arrive

@@ -6,6 +6,7 @@ from datetime import date, datetime, timedelta
 
 from .alerts import Alert, count_by_level, format_alert, worst_first
 from .readings import Reading, average_moisture, group_by_zone, moisture_trend, readings_since
+from .valves import ValveBank
 from .zones import ZoneRegistry
 
 
@@ -65,3 +66,11 @@ def crop_table(registry: ZoneRegistry) -> list[tuple[str, int]]:
         zones = registry.growing(crop)
         table.append((crop, len(zones)))
     return table
+
+
+def valve_lines(bank: ValveBank) -> list[str]:
+    lines = []
+    for valve in bank.open_valves():
+        minutes = bank.minutes_open(valve.valve_id)
+        lines.append(f"{valve.valve_id} (zone {valve.zone_id}): open {minutes:.0f} min")
+    return lines

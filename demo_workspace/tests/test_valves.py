@@ -52,3 +52,12 @@ def test_close_all():
     clock.now = 60.0
     total = bank.close_all()
     assert total == pytest.approx(15.0)
+
+
+def test_valve_lines_list_only_open_valves():
+    from fernhill.reports import valve_lines
+
+    bank, clock = make_bank()
+    bank.open("n1-v1")
+    clock.now = 600.0
+    assert valve_lines(bank) == ["n1-v1 (zone n1): open 10 min"]

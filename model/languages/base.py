@@ -39,6 +39,8 @@ class Language:
     adding_methods = frozenset({"push", "add", "append", "put", "insert", "push_back", "Add", "offer"})
     type_position = ""
     call_markers = frozenset({"(", "{"})  # after a name, what makes it a call (or a constructed literal)
+    # Methods that hand on the value they are called on (Rust's `.unwrap()`): `first().unwrap()` is a `first`.
+    passing_methods: frozenset[str] = frozenset()
     collection_types = frozenset({"List", "ArrayList", "LinkedList", "Set", "HashSet", "Collection", "Iterable",
                                   "Vec", "VecDeque", "Array", "ReadonlyArray", "IEnumerable", "IList", "ICollection",
                                   "vector", "Sequence", "Stream", "Iterator", "Slice"})

@@ -214,6 +214,7 @@ def python_scopes(text: str, tokens: list[Token], future: str = "") -> tuple[lis
 
     variables: list[Variable] = []
     by_id: dict[int, Variable] = {}
+    setters = property_setters(tree)
     for scope in scopes:
         if isinstance(scope.node, ast.ClassDef):
             continue
@@ -221,7 +222,8 @@ def python_scopes(text: str, tokens: list[Token], future: str = "") -> tuple[lis
         is_function = isinstance(scope.node, (ast.FunctionDef, ast.AsyncFunctionDef))
         positional_only = {a.arg for a in scope.node.args.posonlyargs} if is_function else set()
         public = is_function and not scope.node.name.startswith("_")
-        dictated = dictated_by(scope.node) if is_function else ""
+        dictated = (dictated_by(scope.node) or (_SETTER if (owner_class(scope), scope.node.name) in setters else "")) \
+            if is_function else ""
         owner = scope.parent.node.name if is_function and scope.parent is not None and \
             isinstance(scope.parent.node, ast.ClassDef) else ""
         for name, places in scope.occurrences.items():
@@ -260,6 +262,28 @@ _FREE_SPECIAL = frozenset({"__init__", "__new__", "__init_subclass__", "__post_i
                            "__class_getitem__", "__set_name__"})
 
 
+_SETTER = "a property setter's parameter"
+
+
+def owner_class(scope) -> str:
+    return scope.parent.node.name if scope.parent is not None and isinstance(scope.parent.node, ast.ClassDef) else ""
+
+
+def property_setters(tree: ast.AST) -> set[tuple[str, str]]:
+    """(class, method) of methods a class body passes to `property(getter, setter, deleter)`."""
+    found = set()
+    for node in ast.walk(tree):
+        if not isinstance(node, ast.ClassDef):
+            continue
+        for statement in node.body:
+            call = getattr(statement, "value", None)
+            if not isinstance(call, ast.Call) or _dotted(call.func).rsplit(".", 1)[-1] != "property":
+                continue
+            passed = call.args[1:3] + [k.value for k in call.keywords if k.arg in ("fset", "fdel")]
+            found.update((node.name, argument.id) for argument in passed if isinstance(argument, ast.Name))
+    return found
+
+
 def dictated_by(node: ast.FunctionDef | ast.AsyncFunctionDef) -> str:
     """Why a function's parameter names are not the team's to choose, or ""."""
     decorators = [_dotted(d.func if isinstance(d, ast.Call) else d) for d in node.decorator_list]
@@ -267,7 +291,7 @@ def dictated_by(node: ast.FunctionDef | ast.AsyncFunctionDef) -> str:
     if "overload" in last:
         return "an @overload stub repeats the real function's parameters"
     if "setter" in last or "deleter" in last:
-        return "a property setter's parameter"
+        return _SETTER
     if node.name.startswith("__") and node.name.endswith("__") and node.name not in _FREE_SPECIAL:
         return f"`{node.name}` takes the parameters Python's protocol gives it"
     if node.name.startswith("test_") or "fixture" in last:

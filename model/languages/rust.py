@@ -29,6 +29,8 @@ class Rust(Language):
     loop_words = frozenset({"in"})
     type_position = "colon"
     call_markers = frozenset({"(", "{", "!"})  # `vec![...]`
+    passing_methods = frozenset({"unwrap", "unwrap_or", "unwrap_or_default", "unwrap_or_else", "expect", "clone",
+                                 "to_owned", "into", "as_ref", "as_mut", "copied", "cloned"})
     scoped_headers = frozenset({"for", "while", "if"})
 
     def declarations(self, tokens: list[Token], i: int) -> list[int]:

@@ -44,9 +44,11 @@ def finding_text(finding: Finding) -> str:
     if not finding.suggestions:
         return head + f"`{finding.name}` does not fit how it is used here"
     options = []
-    for suggestion in finding.suggestions[:3]:
+    for number, suggestion in enumerate(finding.suggestions[:3]):
         where = ", ".join(f"{path}:{line}" for path, line in suggestion.evidence[:2])
-        options.append(f"`{suggestion.name}`" + (f" (as in {where})" if where else ""))
+        why = suggestion.reason if number == 0 and suggestion.reason else ""
+        backing = "; ".join(part for part in (why, f"as in {where}" if where else "") if part)
+        options.append(f"`{suggestion.name}`" + (f" ({backing})" if backing else ""))
     return head + f"`{finding.name}` does not fit how it is used here; the team would call it " + \
         " or ".join(options)
 

@@ -22,6 +22,10 @@ def register(commands) -> None:
     train.add_argument("--seed", type=int, default=1)
     train.add_argument("--flag-budget", type=float, default=1.0,
                        help="flags allowed per 1,000 lines of clean code when calibrating (default 1)")
+    train.add_argument("--flag-any-odd-name", action="store_true",
+                       help="flag any name whose oddness passes the threshold, not only names the team's naming "
+                            "of a collection's items contradicts: more misnames caught, most flags not worth a "
+                            "rename on the packages measured")
     train.add_argument("--if-changed", action="store_true", help="do nothing when the code has not changed")
     train.add_argument("--force", action="store_true", help="promote even if the promotion check refuses")
     train.add_argument("--tolerance", type=float, default=0.02,
@@ -74,7 +78,8 @@ def run(args) -> int:
     repository_settings(path)  # a malformed settings file: one line, before any work
     store = store_for(args, path)
     settings = TrainSettings(vocabulary_size=args.vocabulary_size, min_count=args.min_count,
-                             epochs=args.epochs, flag_budget=args.flag_budget, seed=args.seed)
+                             epochs=args.epochs, flag_budget=args.flag_budget, seed=args.seed,
+                             flag_contradictions_only=not args.flag_any_odd_name)
     if args.reproducible:
         settings.workers = 1
     policy = PromotionPolicy(tolerance=args.tolerance, force=args.force)
@@ -110,9 +115,14 @@ def summary(result, settings: TrainSettings) -> str:
         f"  vocabulary {counts.get('vocabulary', 0):,} tokens, {counts.get('names', 0):,} candidate names",
     ]
     for language, entry in sorted(manifest.get("languages", {}).items()):
-        if "threshold" in entry:
-            lines.append(f"  {language:10} flags names above {entry['threshold']:.3f} (about {settings.flag_budget:g} "
-                         f"per 1,000 lines of clean code)")
+        if entry.get("every_contradicted_name"):
+            lines.append(f"  {language:10} flags every name one of its cues contradicts (few enough in clean code: "
+                         f"within {settings.flag_budget:g} per 1,000 lines)")
+        elif "threshold" in entry:
+            where = ", of the names one of their cues contradicts" \
+                if manifest.get("settings", {}).get("flag_contradictions_only") else ""
+            lines.append(f"  {language:10} flags names above {entry['threshold']:.3f}{where} (at most about "
+                         f"{settings.flag_budget:g} per 1,000 lines of clean code)")
         else:
             lines.append(f"  {language:10} suggestions only: {entry.get('suggestions_only', 'no threshold')}")
     if quality:

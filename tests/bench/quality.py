@@ -48,6 +48,7 @@ def corpora() -> list[tuple[str, Path, Settings]]:
 ABLATIONS = {
     "full model": {},
     "no name flow": {"use_flow": False},
+    "flags without a contradicting cue": {"flag_contradictions_only": False},
     "with embeddings in ranking and detection": {"embedding_weight": 1.0},
     "no sub-token overlap in ranking": {"lexical_weight": 0.0},
     "no context counts in ranking": {"count_weight": 0.0},

@@ -115,3 +115,11 @@ def test_flow_cues_worked_by_hand():
     assert {"keyword:Low"} <= cues["low"] and "keyword:Count" in cues["count"], "composite-literal keys"
     assert {"call:Config", "receiver:v1"} <= cues["cfg"]
     assert not cues["n"] and not cues["ok"], "`n, ok := lookup(...)` gives neither the call's result alone"
+
+
+def test_a_chained_call_gives_no_cue_of_its_first_call():
+    source = "package p\n\nfunc save(w io.Writer, v any) error {\n\terr := json.NewEncoder(w).Encode(v)\n" \
+             "\tenc := json.NewEncoder(w)\n\t_ = enc\n\treturn err\n}\n"
+    cues = {v.name: set(v.cues) for v in analyse(source, "save.go", "go").variables}
+    assert not any(cue.startswith(("call:", "receiver:")) for cue in cues["err"]), cues["err"]
+    assert "call:NewEncoder" in cues["enc"]
