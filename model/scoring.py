@@ -631,6 +631,8 @@ class Scorer:
         With suggest_above, names are suggested only for variables whose oddness passes it
         (the others keep an empty list): the expensive part is skipped where nothing is shown.
         """
+        if not variables:
+            return []
         holdout = None
         if source.digest and self.tables.trained_files.get(source.path) == source.digest:
             # The model learned from this very file: take its share out, as calibration did, or the

@@ -214,7 +214,7 @@ def python_scopes(text: str, tokens: list[Token], future: str = "") -> tuple[lis
 
     variables: list[Variable] = []
     by_id: dict[int, Variable] = {}
-    setters = property_setters(tree)
+    setters = property_setters(scope.node for scope in scopes if isinstance(scope.node, ast.ClassDef))
     for scope in scopes:
         if isinstance(scope.node, ast.ClassDef):
             continue
@@ -269,12 +269,10 @@ def owner_class(scope) -> str:
     return scope.parent.node.name if scope.parent is not None and isinstance(scope.parent.node, ast.ClassDef) else ""
 
 
-def property_setters(tree: ast.AST) -> set[tuple[str, str]]:
+def property_setters(classes) -> set[tuple[str, str]]:
     """(class, method) of methods a class body passes to `property(getter, setter, deleter)`."""
     found = set()
-    for node in ast.walk(tree):
-        if not isinstance(node, ast.ClassDef):
-            continue
+    for node in classes:
         for statement in node.body:
             call = getattr(statement, "value", None)
             if not isinstance(call, ast.Call) or _dotted(call.func).rsplit(".", 1)[-1] != "property":
