@@ -38,6 +38,7 @@ class Finding:
     shorthand: dict[tuple[int, int], str] = field(default_factory=dict)  # uses that also name a property
     language: str = ""
     dictated: str = ""  # why the name is never flagged (an override's parameter...), or ""
+    agreement: float | None = None  # a flag a cue contradicts: the team's share there of the name it gives
 
     def rename_edits(self, new_name: str) -> list[tuple[int, int, int, str]]:
         """(line, column, length, new text) for every use: a rename that changes the uses and nothing else."""
@@ -51,6 +52,7 @@ class Finding:
             "score": None if self.score is None else round(self.score, 4),
             "threshold": round(self.threshold, 4) if math.isfinite(self.threshold) else None,
             "suggestions": [suggestion_json(s) for s in self.suggestions],
+            **({"agreement": round(self.agreement, 4)} if self.agreement is not None else {}),
         }
 
 
@@ -85,7 +87,7 @@ def _finding(source: SourceFile, judgement: Judgement, scorer: Scorer, threshold
         end_column=first.column + len(variable.name), name=variable.name, score=judgement.oddness,
         threshold=threshold, flagged=flagged and bool(suggestions),
         suggestions=suggestions, variable=variable, occurrences=places, shorthand=shorthand,
-        language=source.language, dictated=judgement.dictated,
+        language=source.language, dictated=judgement.dictated, agreement=judgement.agreement,
     )
 
 
@@ -154,7 +156,8 @@ class JudgementCache:
         if missing:
             fresh = scorer.judge_many(source, [v for v, _ in missing], suggest_above=suggest_above)
             for (_, key), judgement in zip(missing, fresh):
-                self.entries[key] = (judgement.oddness, judgement.suggestions, judgement.features)
+                self.entries[key] = (judgement.oddness, judgement.suggestions, judgement.features,
+                                     judgement.dictated, judgement.flaggable, judgement.agreement)
         self.entries = {key: self.entries[key] for key in keys}
         return [Judgement(v, *self.entries[k]) for v, k in zip(variables, keys)]
 

@@ -183,6 +183,7 @@ class Judgement:
     features: np.ndarray | None = None
     dictated: str = ""  # why the name is never judged
     flaggable: bool = True  # whether the name can be flagged at all (see `flaggable`)
+    agreement: float | None = None  # where a cue contradicts the name: the team's share of the name it gives
 
 
 # --- contexts ---------------------------------------------------------------------------
@@ -704,10 +705,12 @@ class Scorer:
         if suggest_above is None or (oddness is not None and oddness > suggest_above):
             suggestions = self.suggestions(ranking, allowed, limit, variable.bound_names, variable.name)
         may_flag = flaggable(fit, variable.name, ranking.flow, self.tables.flags_need_contradiction)
+        agreement = None
         if may_flag and suggestions and self.tables.flags_need_contradiction:
             # A flag is about the name its cue gives: when that name cannot be offered, no flag.
             suggestions, may_flag = self._contradicting_first(suggestions, ranking, allowed, variable.name, limit)
-        return Judgement(variable, oddness, suggestions, features, flaggable=may_flag)
+            agreement = ranking.flow.contradiction(variable.name)[2] if may_flag else None
+        return Judgement(variable, oddness, suggestions, features, flaggable=may_flag, agreement=agreement)
 
     def _contradicting_first(self, suggestions: list[Suggestion], ranking: Ranking, allowed: np.ndarray,
                              name: str, limit: int) -> tuple[list[Suggestion], bool]:

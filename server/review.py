@@ -52,12 +52,19 @@ def calibrated_threshold(scorer: Scorer | None, finding: Finding) -> float:
     return scorer.threshold_for(finding.language) if scorer is not None else math.inf
 
 
+STRONG_AGREEMENT = 0.8  # a contradicting cue where this share of the team's names agree makes an error
+
+
 def level_of(finding: Finding, calibrated: float) -> str:
-    """Error when the oddness is STRONG_MARGIN above the model's calibrated threshold, else warning.
+    """Error when the team's naming at the contradicting cue is near unanimous (STRONG_AGREEMENT), or,
+    for a model that flags by oddness alone, when the oddness is STRONG_MARGIN above the model's
+    calibrated threshold; else warning.
 
     A threshold given on the command line or in the editor changes which names are reported,
     never how severe a name is.
     """
+    if finding.agreement is not None:
+        return "error" if finding.agreement >= STRONG_AGREEMENT else "warning"
     if finding.score is not None and finding.score >= calibrated + STRONG_MARGIN:
         return "error"
     return "warning"
