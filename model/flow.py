@@ -17,6 +17,7 @@ Each language module reads cues per variable, "kind:word":
   parameter   the value is parameter "function#k"             `def send(invoice, ...)`
   type        the value's declared type is `word` ("many T" for a collection of T)
   default     a parameter's default value is `word`
+  checked     the code asks what kind of value it is, with `word` (`isinstance(x, ...)`); not counted
 
 The repository index (`FlowIndex`) counts, for every cue, the names the team gives there; an
 argument and the callee's parameter at the same position index each other. Cues give
@@ -185,8 +186,9 @@ def file_flow(variables, weight: float = 1.0) -> FileFlow:
 
 
 def index_cues(cues) -> list[str]:
-    """The cues a variable is counted under: its own, and "returned:*" for any returned value."""
-    found = list(cues)
+    """The cues a variable is counted under: its own (but "checked", which names no value), and
+    "returned:*" for any returned value."""
+    found = [cue for cue in cues if not cue.startswith("checked:")]
     if any(cue.startswith("returned:") for cue in cues):
         found.append("returned:*")
     return found
@@ -460,28 +462,33 @@ class Flow:
 
     def contradiction(self, name: str) -> tuple[str, str, float] | None:
         """(other name, cue, the team's share of `other` there) when the variable is an element of a
-        collection and both the team and the collection's own word call such elements `other`: in
-        at least MIN_CONTRADICTING places and most of the names the team gives there (`for constraint
-        in model._meta.indexes`, where the team says `index` in 12 places).
+        collection and both the team and the collection's own word call such elements `other`, in
+        at least the places and the share of names given there that CONTRADICTING asks (`for
+        constraint in model._meta.indexes`, where the team says `index` in 12 places).
 
         Never when `name` is given at any of the variable's cues or named by their words, nor when
         it is a form of `other` (`req` for `request`, `frames` for `frame`) or a shortening of the
         collection's word (`lopt` for `long_opts`). None when nothing contradicts it."""
         if name in self.implied or any(counts.get(name) for _, counts in self.given):
             return None
+        # An item the code tests the kind of (`if hasattr(arg, "resolve_expression")`) is not yet what
+        # its collection's word says: the name may say what it is before that.
+        unsure = any(cue.startswith("checked:") for cue in self.cues)
         by_cue = dict(zip((cue for cue, _ in self.given), self._tops()))
         found = None
         for cue in index_cues(self.cues):
-            if not _names_value(cue):
+            rule = contradicting_rule(cue)
+            if rule is None or unsure and cue.startswith("iterated:"):
                 continue
+            least_places, least_share = rule
             word = cue.partition(":")[2]
             said = [other for other, cues in self.implied.items() if cue in cues and len(other.strip("_")) >= 3]
             top, total = by_cue.get(cue, ([], 0.0))
-            if not said or not top or top[0][1] < MIN_CONTRADICTING or _shortens_words(name, word):
+            if not said or not top or top[0][1] < least_places or _shortens_words(name, word):
                 continue
             other, count = top[0]
             share = count / total
-            if share >= CONTRADICTING_SHARE and len(other.strip("_")) >= 3 and \
+            if share >= least_share and len(other.strip("_")) >= 3 and \
                     any(same_word(other, implied) for implied in said) and not same_word(name, other) and \
                     (found is None or share > found[2]):
                 found = (other, cue, share)
@@ -511,23 +518,23 @@ class Flow:
         return "", ""
 
 
-# How much of the team's naming at a cue must agree before it contradicts a name (see Flow.contradiction):
-# this many places, and this share of the names given there.
-MIN_CONTRADICTING = 3.0
-CONTRADICTING_SHARE = 0.5
-# Cues that may contradict a name. Read by reviewers on two real packages (Django, golang.org/x/net):
+# Cues that may contradict a name, and how much of the team's naming there must agree first: (places,
+# share of the names given there). Read by reviewers on two real packages (Django, golang.org/x/net):
 # flags from the items of a collection, where the team and the collection's word agree, were good
 # catches nearly every time; from a callee, an attribute, a receiver or a key, a descriptive name
 # traded for the team's habit (`outerq` for `query`) as often as not; from the collection's word
 # alone, or two cues' words, false alarms mostly (`for name in families`, a map's keys).
-CONTRADICTING_KINDS = frozenset({"iterated"})
+CONTRADICTING = {"iterated": (3.0, 0.5)}
 
 
-def _names_value(cue: str) -> bool:
-    """Whether a cue may contradict a name: of CONTRADICTING_KINDS, its word telling something
-    (three letters or more, not `self` or `data`)."""
+def contradicting_rule(cue: str) -> tuple[float, float] | None:
+    """(places, share) the team must agree on before a cue contradicts a name (see CONTRADICTING);
+    None for a cue that may not, or whose word tells nothing (under three letters, `self`, `data`)."""
     kind, _, word = cue.partition(":")
-    return kind in CONTRADICTING_KINDS and word not in _NOTHING and len(word.strip("_")) >= 3
+    rule = CONTRADICTING.get(kind)
+    if rule is None or word in _NOTHING or len(word.strip("_")) < 3:
+        return None
+    return rule
 
 
 def same_word(name: str, other: str) -> bool:

@@ -19,6 +19,8 @@ _PASS_THROUGH = frozenset({"sorted", "reversed", "list", "tuple", "set", "frozen
                            "filter", "map"})
 _KEYED_READS = frozenset({"get", "pop", "setdefault", "getenv", "getattr", "getlist", "get_all", "getboolean",
                           "getint", "getfloat"})
+# Calls that ask what kind of value their first argument is.
+_TESTS_KIND = frozenset({"isinstance", "hasattr", "callable", "issubclass"})
 _ADDING = frozenset({"append", "add", "appendleft", "put", "put_nowait", "push", "insert", "extend"})
 _WRAPPERS = frozenset({"Optional", "Union", "List", "list", "Sequence", "Iterable", "Iterator", "set", "Set",
                        "frozenset", "FrozenSet", "tuple", "Tuple", "Final", "ClassVar", "Annotated", "type", "Type",
@@ -39,6 +41,7 @@ def python_cues(nodes: list[ast.AST], variable_at: dict[tuple[int, int], Variabl
     (for returns); `variable_at` maps a Name's (line, character column) to its variable,
     `column(line, byte offset)` converts ast columns."""
     cues: dict[int, list[str]] = {}
+    keyword_bags: set[int] = set()  # `**options` parameters: their values are whatever callers pass
 
     def of(node: ast.AST) -> Variable | None:
         if isinstance(node, ast.Name):
@@ -52,6 +55,15 @@ def python_cues(nodes: list[ast.AST], variable_at: dict[tuple[int, int], Variabl
             return
         cues.setdefault(id(variable), []).append(f"{kind}:{word}")
 
+    def any_values(node: ast.AST) -> bool:
+        variable = of(node)
+        return variable is not None and id(variable) in keyword_bags
+
+    for node, _ in nodes:
+        if isinstance(node, (ast.FunctionDef, ast.AsyncFunctionDef, ast.Lambda)) and node.args.kwarg is not None:
+            bag = of(node.args.kwarg)
+            if bag is not None:
+                keyword_bags.add(id(bag))
     for node, function in nodes:
         if isinstance(node, ast.Return):
             if function and node.value is not None:
@@ -74,10 +86,10 @@ def python_cues(nodes: list[ast.AST], variable_at: dict[tuple[int, int], Variabl
                     if key:
                         add(of(value), "key", key)  # `settings["timeout"] = timeout`
         elif isinstance(node, (ast.For, ast.AsyncFor)):
-            iter_cues(node.target, node.iter, of, add)
+            iter_cues(node.target, node.iter, of, add, any_values)
         elif isinstance(node, (ast.ListComp, ast.SetComp, ast.DictComp, ast.GeneratorExp)):
             for generator in node.generators:
-                iter_cues(generator.target, generator.iter, of, add)
+                iter_cues(generator.target, generator.iter, of, add, any_values)
         elif isinstance(node, ast.withitem) and node.optional_vars is not None:
             variable = of(node.optional_vars)
             for kind, word, source in sources(node.context_expr):
@@ -135,33 +147,35 @@ def sources(value: ast.AST):
                 yield "receiver", container, value.value  # an item of `rows[i]` is a row
 
 
-def iter_cues(target: ast.AST, iterable: ast.AST, of, add) -> None:
-    """`for user in users`, `for i, user in enumerate(users)`, `for key, value in settings.items()`."""
+def iter_cues(target: ast.AST, iterable: ast.AST, of, add, any_values) -> None:
+    """`for user in users`, `for i, user in enumerate(users)`, `for key, value in settings.items()`.
+    The values of a `**fields` parameter are whatever callers pass: only its keys get a cue."""
     if isinstance(iterable, ast.Call):
         callee = iterable.func
         name = callee.attr if isinstance(callee, ast.Attribute) else callee.id if isinstance(callee, ast.Name) else ""
         if name == "enumerate" and iterable.args and isinstance(target, ast.Tuple) and len(target.elts) == 2:
-            iter_cues(target.elts[1], iterable.args[0], of, add)
+            iter_cues(target.elts[1], iterable.args[0], of, add, any_values)
             return
         if name in ("items", "keys", "values") and isinstance(callee, ast.Attribute):
             container = last_name(callee.value)
+            values = "" if any_values(callee.value) else container
             if name == "items" and isinstance(target, ast.Tuple) and len(target.elts) == 2:
                 add(of(target.elts[0]), "key_of", container, callee.value)
-                add(of(target.elts[1]), "iterated", container, callee.value)
+                add(of(target.elts[1]), "iterated", values, callee.value)
             elif name == "keys":
                 add(of(target), "key_of", container, callee.value)
             else:
-                add(of(target), "iterated", container, callee.value)
+                add(of(target), "iterated", values, callee.value)
             return
         if name in _PASS_THROUGH and iterable.args:
-            iter_cues(target, iterable.args[0], of, add)
+            iter_cues(target, iterable.args[0], of, add, any_values)
             return
         if name:
             add(of(target), "iterated", name, None)
         return
     container = last_name(iterable)
     if container:
-        add(of(target), "iterated", container, iterable)
+        add(of(target), "key_of" if any_values(iterable) else "iterated", container, iterable)
     if isinstance(target, ast.Name):
         add(of(iterable), "holds", target.id, target)  # `for reading in readings`
 
@@ -172,6 +186,8 @@ def call_cues(call: ast.Call, of, add) -> None:
     name = callee.attr if isinstance(callee, ast.Attribute) else callee.id if isinstance(callee, ast.Name) else ""
     if not name:
         return
+    if name in _TESTS_KIND and call.args:
+        add(of(call.args[0]), "checked", name)  # the code asks what the value is
     # A builtin's parameters (`len(obj)`, `isinstance(obj, ...)`) say nothing of what is passed.
     for position, argument in enumerate(call.args if name not in PYTHON_BUILTINS else ()):
         if isinstance(argument, ast.Starred):

@@ -220,6 +220,30 @@ def test_flow_cues_worked_by_hand():
     assert "keyword:timeout" not in cues["settings"]
 
 
+def test_a_keyword_bag_names_its_keys_not_its_values():
+    from cognomen.model.corpus import analyse
+    text = ("def build(**fields):\n    pairs = []\n    for key, value in fields.items():\n        pairs.append(value)\n"
+            "    for entry in fields.values():\n        pairs.append(entry)\n    for name in fields:\n"
+            "        pairs.append(name)\n    return pairs\n\n\n"
+            "def walk(fields):\n    for label, field in fields.items():\n        print(label, field)\n")
+    by_name = {v.name: set(v.cues) for v in analyse(text, "bag.py", "python").variables}
+    assert "key_of:fields" in by_name["key"], "the keys of a `**fields` bag are keyword names"
+    assert not any(cue.startswith("iterated:") for cue in by_name["value"] | by_name["entry"]), \
+        "what callers pass in a `**fields` bag may be anything"
+    assert "key_of:fields" in by_name["name"], "iterating the bag gives its keys"
+    assert "iterated:fields" in by_name["field"], "a plain mapping's values still get their collection's cue"
+
+
+def test_a_value_whose_kind_the_code_tests_is_marked_and_not_counted():
+    from cognomen.model.corpus import analyse
+    from cognomen.model.flow import index_cues
+    text = ("def parse(*expressions):\n    return [arg if hasattr(arg, 'resolve') else wrap(arg)\n"
+            "            for arg in expressions]\n")
+    arg = next(v for v in analyse(text, "parse.py", "python").variables if v.name == "arg")
+    assert {"checked:hasattr", "iterated:expressions"} <= set(arg.cues)
+    assert "checked:hasattr" not in index_cues(arg.cues), "a test of kind names no value: the index never counts it"
+
+
 def test_a_constructors_parameters_are_indexed_under_its_class():
     from cognomen.model.corpus import analyse
     source = analyse("class Meter:\n    def __init__(self, port, scale=1):\n        self.port = port\n\n"
