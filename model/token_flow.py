@@ -140,7 +140,8 @@ def _continues_after_call(tokens: list[Token], opening: int, passing: frozenset[
 
 def _loop_cues(tokens: list[Token], j: int, language, variable_at, variable) -> list[str]:
     """For a loop's variable, the collection looped over: `for (const user of users)`,
-    `for (User user : users)`, `for key, user := range users`, `for user in users.iter()`."""
+    `for (User user : users)`, `for key, user := range users`, `for user in users.iter()`; a key
+    or index of it for `key` there, `for key := range users` and `for (const key in users)`."""
     k, later_names = j + 1, 0
     while k + 1 < len(tokens) and tokens[k].text == "," and tokens[k + 1].kind == NAME:
         k += 2
@@ -148,15 +149,18 @@ def _loop_cues(tokens: list[Token], j: int, language, variable_at, variable) -> 
     if k >= len(tokens):
         return []
     word = tokens[k].text
+    # The first name of `for key := range table` and of `for (const key in table)` takes keys or indexes.
+    keyed = word in language.key_loop_words
     if word == ":=" and k + 1 < len(tokens) and tokens[k + 1].text == "range":
         k += 1
+        keyed = j == 0 or tokens[j - 1].text != ","
     elif word not in language.loop_words or (word == ":" and not _in_loop_header(tokens, j)):
         return []
     chain = name_chain(tokens, k + 1)
     names = [tokens[c].text for c in chain if tokens[c].text not in _ITERATING_CALLS and tokens[c].text != "self"]
     if not names or variable_at.get(chain[0]) is variable:
         return []
-    if later_names:
+    if later_names or keyed:
         return [f"key_of:{names[-1]}"]
     if len(chain) == 1:
         holder = variable_at.get(chain[0])

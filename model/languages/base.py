@@ -36,6 +36,7 @@ class Language:
     # declared type is written ("before" the name, "after" it, after a "colon", or "" for none).
     assignment_operators = frozenset({"="})
     loop_words: frozenset[str] = frozenset()
+    key_loop_words: frozenset[str] = frozenset()  # loops over a mapping's keys (`for (k in obj)`)
     adding_methods = frozenset({"push", "add", "append", "put", "insert", "push_back", "Add", "offer"})
     type_position = ""
     call_markers = frozenset({"(", "{"})  # after a name, what makes it a call (or a constructed literal)

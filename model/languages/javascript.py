@@ -35,6 +35,7 @@ class JavaScript(Language):
     binding_before = (re.compile(r"\b(let|const|var)\s+$"), re.compile(r"\bfunction\s*\w*\s*\(([^)]*,)?\s*$"))
     declaration_words = frozenset({"let", "const", "var"})
     loop_words = frozenset({"of", "in"})
+    key_loop_words = frozenset({"in"})
 
     member_access = frozenset({".", "?."})
 

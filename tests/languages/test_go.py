@@ -117,6 +117,18 @@ def test_flow_cues_worked_by_hand():
     assert not cues["n"] and not cues["ok"], "`n, ok := lookup(...)` gives neither the call's result alone"
 
 
+def test_a_lone_range_variable_takes_keys_not_elements():
+    # The Go specification, "For statements with range clause": with one iteration variable, a
+    # range over a slice gives its indexes and over a map its keys.
+    text = ("package p\n\nfunc f(refs map[string]bool, rows []int) int {\n\tn := 0\n"
+            "\tfor left := range refs {\n\t\tn += len(left)\n\t}\n"
+            "\tfor i := range rows {\n\t\tn += i\n\t}\n"
+            "\tfor _, row := range rows {\n\t\tn += row\n\t}\n\treturn n\n}\n")
+    cues = {v.name: set(v.cues) for v in analyse(text, "p.go", "go").variables}
+    assert "key_of:refs" in cues["left"] and "iterated:refs" not in cues["left"]
+    assert "key_of:rows" in cues["i"] and "iterated:rows" in cues["row"]
+
+
 def test_a_chained_call_gives_no_cue_of_its_first_call():
     source = "package p\n\nfunc save(w io.Writer, v any) error {\n\terr := json.NewEncoder(w).Encode(v)\n" \
              "\tenc := json.NewEncoder(w)\n\t_ = enc\n\treturn err\n}\n"

@@ -85,3 +85,13 @@ def test_a_parameter_shadows_an_outer_variable_of_its_name(tmp_path):
     before = run("javascript", SHADOWING, tmp_path / "before")
     assert before == "seconds seconds\n"
     assert run("javascript", rename(SHADOWING, "javascript"), tmp_path / "after") == before
+
+
+def test_for_in_takes_keys_and_for_of_takes_elements():
+    # ECMAScript: `for (... in obj)` enumerates property keys, `for (... of iterable)` its values.
+    text = ("function total(prices, orders) {\n  let sum = 0;\n  for (const name in prices) {\n"
+            "    sum += prices[name];\n  }\n  for (const order of orders) {\n    sum += order.amount;\n  }\n"
+            "  return sum;\n}\n")
+    cues = {v.name: set(v.cues) for v in analyse(text, "total.js", "javascript").variables}
+    assert "key_of:prices" in cues["name"] and "iterated:prices" not in cues["name"]
+    assert "iterated:orders" in cues["order"]
