@@ -19,6 +19,26 @@ _COMPREHENSION_NAMES = {ast.ListComp: "listcomp", ast.SetComp: "setcomp", ast.Di
 
 # Nodes that never hold a name: contexts, operators, constants, import aliases.
 _LEAVES = (ast.expr_context, ast.operator, ast.cmpop, ast.boolop, ast.unaryop, ast.Constant, ast.alias)
+# Fields that hold plain text, numbers or leaves, never a node that may hold a name.
+_SCALAR_FIELDS = frozenset({"id", "attr", "name", "ctx", "op", "kind", "arg", "module", "level", "type_comment",
+                            "is_async", "simple", "conversion"})
+_FLOW_TYPES = frozenset(FLOW_NODES)
+_SCOPE_TYPES = frozenset(_SCOPE_NODES)
+_BINDING_TYPES = frozenset({ast.ExceptHandler, ast.MatchAs, ast.MatchStar, ast.MatchMapping})
+
+
+class _NodeKinds(dict):
+    """Per node class, the fields worth walking into (or None for a class that never holds a
+    name): the walk looks a class up once instead of testing every node with isinstance."""
+
+    def __missing__(self, cls: type) -> tuple[str, ...] | None:
+        fields = None if not issubclass(cls, ast.AST) or issubclass(cls, _LEAVES) else \
+            tuple(field for field in cls._fields if field not in _SCALAR_FIELDS)
+        self[cls] = fields
+        return fields
+
+
+_WALKED_FIELDS = _NodeKinds()
 
 
 def _table_key(node: ast.AST) -> tuple[str, int]:
@@ -133,24 +153,27 @@ def python_scopes(text: str, tokens: list[Token], future: str = "") -> tuple[lis
                     break
         return found
 
+    walked = _WALKED_FIELDS
+
     def visit(node: ast.AST, scope: _Scope | None, children: dict) -> None:
-        for field in node._fields:
+        for field in walked[node.__class__] or ():
             value = getattr(node, field, None)
-            if isinstance(value, list):
+            if value.__class__ is list:
                 for item in value:
-                    if isinstance(item, ast.AST) and not isinstance(item, _LEAVES):
+                    if walked[item.__class__] is not None:
                         visit_node(item, scope, children)
-            elif isinstance(value, ast.AST) and not isinstance(value, _LEAVES):
+            elif walked[value.__class__] is not None:
                 visit_node(value, scope, children)
 
     def visit_node(node: ast.AST, scope: _Scope | None, children: dict) -> None:
-        if isinstance(node, FLOW_NODES):
-            flow_nodes.append((node, scope.function if scope is not None and isinstance(
-                scope.node, (ast.FunctionDef, ast.AsyncFunctionDef)) else ""))
-        if isinstance(node, ast.Name):
+        cls = node.__class__
+        if cls is ast.Name:
             record(scope, node.id, node.lineno, char_column(node.lineno, node.col_offset), LOCAL)
             return
-        if isinstance(node, _SCOPE_NODES):
+        if cls in _FLOW_TYPES:
+            flow_nodes.append((node, scope.function if scope is not None and isinstance(
+                scope.node, (ast.FunctionDef, ast.AsyncFunctionDef)) else ""))
+        if cls in _SCOPE_TYPES:
             # Decorators, defaults, bases and the first iterable belong to the enclosing scope.
             if isinstance(node, (ast.FunctionDef, ast.AsyncFunctionDef, ast.ClassDef)):
                 for decorator in node.decorator_list:
@@ -195,6 +218,9 @@ def python_scopes(text: str, tokens: list[Token], future: str = "") -> tuple[lis
                 for part in ("elt", "key", "value"):
                     if hasattr(node, part):
                         visit_node(getattr(node, part), inner, grandchildren)
+            return
+        if cls not in _BINDING_TYPES:
+            visit(node, scope, children)
             return
         if isinstance(node, ast.ExceptHandler) and node.name:
             where = search_name(node, node.name)
