@@ -7,7 +7,7 @@ from __future__ import annotations
 import bisect
 from dataclasses import dataclass, field
 
-from .token_flow import token_cues
+from .token_flow import RESULT, token_cues
 from .tokens import NAME, OPERATOR, Token
 
 PARAMETER = "parameter"
@@ -87,13 +87,18 @@ def token_variables(tokens: list[Token], language) -> list[Variable]:
         if starts and tokens[starts[0]].text in language.scoped_headers:
             header_block.update((k, block_id) for k in header)
         parameters = language.parameters_before(tokens, block.start)
-        function = language.function_name(tokens, block.start) if parameters or header else ""
-        if parameters or function:
+        results = language.results_before(tokens, block.start)
+        function = language.function_name(tokens, block.start) if parameters or results or header else ""
+        if parameters or results or function:
             function_blocks[block_id] = function
         for position, index in enumerate(parameters):
             declarations.append((index, block_id, PARAMETER))
             if function:
                 parameter_positions[index] = (function, position)
+        for index in results:
+            declarations.append((index, block_id, PARAMETER))
+            if function:
+                parameter_positions[index] = (function, RESULT)
         if parameters and language.is_public_function(tokens, header):
             public_blocks.add(block_id)
         if parameters:

@@ -13,19 +13,21 @@ _NOT_CALLEES = frozenset({"if", "while", "for", "switch", "catch", "return", "ma
 _ITERATING_CALLS = frozenset({"iter", "into_iter", "iter_mut", "entries", "keys", "values", "items", "enumerate",
                               "chars", "lines", "stream", "toArray", "asList"})
 _ENDS = frozenset({";", ")", "]", "}", ","})
+RESULT = -1  # the position of a named result (Go) in `token_cues`'s parameter_positions
 
 
 def token_cues(tokens: list[Token], variables, language, parameter_positions: dict[int, tuple[str, int]],
                function_of: dict[int, str]) -> None:
     """Set each variable's cues from where its occurrences sit; `parameter_positions` maps a
-    parameter's declaring token to (function, position), `function_of` a token to its function's name."""
+    parameter's declaring token to (function, position), position RESULT for a named result,
+    `function_of` a token to its function's name."""
     variable_at = {i: v for v in variables for i in v.occurrences}
     for variable in variables:
         cues: list[str] = []
         first = variable.occurrences[0]
         if first in parameter_positions:
             function, position = parameter_positions[first]
-            cues.append(f"parameter:{function}#{position}")
+            cues.append(f"returned:{function}" if position == RESULT else f"parameter:{function}#{position}")
         for word in declared_types(tokens, first, language):
             cues.append(f"type:{word}")
         for j in variable.occurrences:

@@ -73,6 +73,10 @@ class Language:
         found = self.parameter_list(tokens, brace)
         return self.parameters(tokens, *found) if found else []
 
+    def results_before(self, tokens: list[Token], brace: int) -> list[int]:
+        """Token indices of the named results of that function (Go's `(n int, err error)`)."""
+        return []
+
     def parameter_list(self, tokens: list[Token], brace: int) -> tuple[int, int] | None:
         """The parenthesised list a block follows: (index of "(", index of ")"), or None."""
         j = brace - 1

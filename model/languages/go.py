@@ -62,15 +62,20 @@ class Go(Language):
         return _statement_end(self, tokens, index)
 
     def parameters_before(self, tokens: list[Token], brace: int) -> list[int]:
-        """A function's parameters and named results: `func (r *T) Name(a, b int) (n int, err error) {`."""
+        """A function's parameters: `a` and `b` in `func (r *T) Name(a, b int) (n int, err error) {`."""
         _, lists = self._signature(tokens, brace)
-        return [index for opening, closing in lists for index in self.parameters(tokens, opening, closing)]
+        return [index for opening, closing in lists[:1] for index in self.parameters(tokens, opening, closing)]
+
+    def results_before(self, tokens: list[Token], brace: int) -> list[int]:
+        """A function's named results, variables of its body too: `n` and `err` above."""
+        _, lists = self._signature(tokens, brace)
+        return [index for opening, closing in lists[1:] for index in self.parameters(tokens, opening, closing)]
 
     def function_name(self, tokens: list[Token], brace: int) -> str:
         return self._signature(tokens, brace)[0]
 
     def _signature(self, tokens: list[Token], brace: int) -> tuple[str, list[tuple[int, int]]]:
-        """The function's name ("" for a literal) and its parameter and result lists."""
+        """The function's name ("" for a literal), its parameter list, then its result list if named."""
         j, depth = brace - 1, 0
         while j >= 0:
             text = tokens[j].text

@@ -117,6 +117,14 @@ def test_flow_cues_worked_by_hand():
     assert not cues["n"] and not cues["ok"], "`n, ok := lookup(...)` gives neither the call's result alone"
 
 
+def test_named_results_are_what_the_function_returns_not_its_parameters():
+    cues = {v.name: set(v.cues) for v in analyse(SOURCE, "plan.go", "go").variables}
+    assert "parameter:parse#0" in cues["line"]
+    assert "returned:parse" in cues["value"] and "returned:parse" in cues["err"]
+    assert not any(cue.startswith("parameter:") for cue in cues["value"] | cues["err"]), \
+        "a caller's second argument is not the named result `value`"
+
+
 def test_a_lone_range_variable_takes_keys_not_elements():
     # The Go specification, "For statements with range clause": with one iteration variable, a
     # range over a slice gives its indexes and over a map its keys.
