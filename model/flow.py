@@ -44,10 +44,12 @@ VERBS = frozenset("""get set load make create read parse build compute find fetc
     do run start fill select pick choose read write""".split())
 # Cues whose word names the value outright; the rest hint at it.
 STRONG_KINDS = frozenset({"keyword", "store", "key", "parameter", "argument", "returned", "type", "default"})
-# A cue's word that says nothing about a value's name.
+# A cue's word that says nothing about a value's name (`keys`, like `items`, names a role in a mapping:
+# `for alias in keys` says more than `key` would).
 _NOTHING = frozenset({"self", "cls", "this", "super", "it", "x", "_", "value", "values", "obj", "object", "args",
-                      "kwargs", "data", "item", "items", "result", "results", "str", "int", "len", "list", "dict",
-                      "tuple", "set", "repr", "type", "isinstance", "print", "format", "join", "append", "get"})
+                      "kwargs", "data", "item", "items", "keys", "result", "results", "str", "int", "len", "list",
+                      "dict", "tuple", "set", "repr", "type", "isinstance", "print", "format", "join", "append",
+                      "get"})
 _PLURAL = re.compile(r"(?:[^s]s|ies|xes|ches|shes|sses)$")
 
 

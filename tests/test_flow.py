@@ -130,6 +130,10 @@ def test_a_loop_variable_is_contradicted_where_the_team_and_the_collections_word
     assert flow_of(index, "result", ("call:open_session",)).contradiction("result") is None, \
         "a callee's habit backs suggestions, never a flag"
     assert flow_of(index, "lopt", ("iterated:_long_opts",)).contradiction("lopt") is None
+    for _ in range(5):
+        index.add("iterated:keys", "key")
+    assert flow_of(index, "alias", ("iterated:keys",)).contradiction("alias") is None, \
+        "the keys of a mapping are named for what they identify: `key` says less than `alias`"
     assert flow_of(index, "arg", ("iterated:indexes", "checked:hasattr")).contradiction("arg") is None, \
         "an item whose kind the code tests is not yet what its collection's word says"
 
