@@ -13,7 +13,9 @@ from pathlib import Path
 
 import numpy as np
 
-FORMAT_VERSION = 5  # 5: per-language thresholds, name flow; 4: measures under their public names
+# 6: the re-ranker reads whether another variable of the file has the name; 5: per-language thresholds, name
+# flow; 4: measures under their public names
+FORMAT_VERSION = 6
 MANIFEST = "manifest.json"
 CURRENT = "current"
 PROMOTABLE = "models"  # models that passed the promotion check (or were forced through it)

@@ -11,7 +11,7 @@ import numpy as np
 
 from .corpus import Corpus
 from .measures import label
-from .reranking import flow_names
+from .reranking import file_names, flow_names
 from .scoring import (IGNORED_NAMES, Scorer, allowed_mask, detection_features, flaggable, name_fit, rank_in_batches,
                       token_ids)
 from .training import TrainSettings, auc, file_local_names, rename, seed_misname, split_files, train
@@ -150,7 +150,8 @@ def _tally(tallies: dict[str, Tally], scorer: Scorer, ranking, allowed, name, va
     tallies["model"].ranks.append(suggested.index(truth) + 1 if truth in suggested else 0)
     row = tables.row_by_name.get((ranking.language, truth))
     in_table = row is not None and bool(allowed[int(np.searchsorted(ranking.rows, row))])
-    tallies["model"].reachable.append(in_table or truth in flow_names(tables, ranking, variable.bound_names, name))
+    tallies["model"].reachable.append(in_table or truth in flow_names(tables, ranking, variable.bound_names, name)
+                                      or truth in file_names(tables, ranking, allowed, variable.bound_names, name))
     orders = {
         "context counts": ranking.count_scores,
         "most frequent": tables.log_counts[ranking.rows],

@@ -14,7 +14,8 @@ SHORTLIST = 30
 MAX_FROM_FLOW = 20
 
 TABLE_FEATURES = ("count", "embedding", "lexical", "combined", "log_name_count", "not_in_table", "log_rank",
-                  "count_gap", "embedding_gap", "subtokens", "verbatim_in_context")
+                  "count_gap", "embedding_gap", "subtokens", "verbatim_in_context", "named_in_file")
+MAX_FROM_FILE = 10
 FEATURES = TABLE_FEATURES + FLOW_FEATURES
 
 
@@ -29,6 +30,28 @@ def flow_names(tables: NameTables, ranking: Ranking, bound: frozenset[str], curr
             continue
         found.append(name)
         if len(found) >= MAX_FROM_FLOW:
+            break
+    return found
+
+
+def file_names(tables: NameTables, ranking: Ranking, allowed: np.ndarray, bound: frozenset[str],
+               current: str) -> list[str]:
+    """Names other variables of the same file take that the table does not offer this variable (a
+    name only this file gives, or one the team gives seldom), most used in the file first."""
+    names = ranking.file_names
+    if names is None:
+        return []
+    reserved = reserved_words(ranking.language)
+    found = []
+    for name in names.most_given():
+        if name == current or name in bound or name in reserved or name in IGNORED_NAMES or name.startswith("_") \
+                or len(name) < 2 or ranking.named_in_file(name) is None:
+            continue
+        row = tables.row_by_name.get((ranking.language, name))
+        if row is not None and allowed[int(np.searchsorted(ranking.rows, row))]:
+            continue  # the table offers it already
+        found.append(name)
+        if len(found) >= MAX_FROM_FILE:
             break
     return found
 
@@ -68,12 +91,14 @@ def shortlist_features(tables: NameTables, ranking: Ranking, allowed: np.ndarray
         count, embedding, ranking.lexical_scores[top], combined[top], np.log1p(used.astype(np.float64)),
         np.zeros(len(top)), np.log1p(np.arange(len(top))), count - best_count, embedding - best_embedding,
         tables.name_parts[table_rows], [1.0 if name in ranking.context_identifiers else 0.0 for name in names],
+        [0.0 if ranking.named_in_file(name) is None else 1.0 for name in names],
     ]).reshape(len(top), len(TABLE_FEATURES))
     features, totals = [], []
     listed = set(names)
-    for name in flow_names(tables, ranking, bound, current):
+    for name in flow_names(tables, ranking, bound, current) + file_names(tables, ranking, allowed, bound, current):
         if name in listed:
             continue
+        listed.add(name)
         row = tables.row_by_name.get((ranking.language, name))
         if row is not None:
             index = int(np.searchsorted(ranking.rows, row))
@@ -106,7 +131,8 @@ def _row(count, embedding, lexical, combined, name_count, not_in_table, rank, be
          ranking) -> list[float]:
     return [count, embedding, lexical, combined, math.log1p(name_count), 1.0 if not_in_table else 0.0,
             math.log1p(rank), count - best_count, embedding - best_embedding,
-            float(len(split_identifier(name))), 1.0 if name in ranking.context_identifiers else 0.0]
+            float(len(split_identifier(name))), 1.0 if name in ranking.context_identifiers else 0.0,
+            0.0 if ranking.named_in_file(name) is None else 1.0]
 
 
 class Reranker(LinearModel):

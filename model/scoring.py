@@ -143,6 +143,35 @@ class Suggestion:
     reason: str = ""  # what in the variable's flow backs the name, in words
 
 
+class FileNames:
+    """The names a file gives its variables: how many variables take each, and where the first is."""
+
+    __slots__ = ("path", "counts", "lines", "_ordered")
+
+    def __init__(self, source: SourceFile):
+        self.path = source.path
+        self.counts: dict[str, int] = {}
+        self.lines: dict[str, int] = {}
+        for variable in source.variables:
+            self.counts[variable.name] = self.counts.get(variable.name, 0) + 1
+            if variable.name not in self.lines:
+                self.lines[variable.name] = source.tokens[variable.occurrences[0]].line
+        self._ordered: list[str] | None = None
+
+    def most_given(self) -> list[str]:
+        """The names, those the most variables take first."""
+        if self._ordered is None:
+            self._ordered = sorted(self.counts, key=lambda name: -self.counts[name])
+        return self._ordered
+
+    def other(self, name: str, own: str) -> tuple[str, int] | None:
+        """Where a variable other than the one called `own` is called `name`."""
+        count = self.counts.get(name, 0)
+        if count == 0 or (name == own and count == 1):
+            return None
+        return self.path, self.lines[name]
+
+
 @dataclass
 class Ranking:
     """Scores of every candidate of the variable's language, computed once per variable."""
@@ -165,6 +194,14 @@ class Ranking:
     own_place: tuple[str, int, int] | None = None  # the variable's file and scope lines: never its own evidence
     flow: Flow | None = None  # what the variable's cues say about its name
     unseen: frozenset[str] = frozenset()  # tokens a model without the held-out file would not know
+    file_names: "FileNames | None" = None  # the names of the file's variables, where each is first given
+    name: str = ""  # the variable's own name when ranked
+
+    def named_in_file(self, name: str) -> tuple[str, int] | None:
+        """Where another variable of the same file is called `name` (path, line), or None."""
+        if self.file_names is None:
+            return None
+        return self.file_names.other(name, self.name)
 
     def name_count(self, tables: "NameTables", row: int) -> float:
         """How often the team used a candidate's name (without the held-out file, if any)."""
@@ -247,7 +284,8 @@ _EMBEDDING_WEIGHTS = (EMBEDDING_WINDOW + 1 - np.abs(_EMBEDDING_OFFSETS)) / EMBED
 
 
 def rank_many(tables: NameTables, source: SourceFile, variables: list[Variable], ids: np.ndarray,
-              weights: Weights | None = None, holdout=None, view: FlowView | None = None) -> list[Ranking | None]:
+              weights: Weights | None = None, holdout=None, view: FlowView | None = None,
+              file_names: FileNames | None = None) -> list[Ranking | None]:
     """rank_candidates for many variables of one file at once (the same numbers, far faster).
 
     With a `holdout` (counts.Holdout) the file's own share of the counts is taken out first,
@@ -300,12 +338,13 @@ def rank_many(tables: NameTables, source: SourceFile, variables: list[Variable],
     style = tables.styles.get(source.language, get_language(source.language).naming_style)
     reserved = reserved_words(source.language)
     flows = [variable_flow(v, view, style, _name_filter(v, reserved), 1.0) if v.cues else None for v in variables]
+    names = file_names if file_names is not None else FileNames(source)
     return [Ranking(source.language, rows, count_scores[i], embedding_scores[i], lexical_scores[i], combined[i],
                     vectors[i], contexts[i], int(counts[i]), unseen_count, float(normalisers[i]),
                     identifiers[i], called[i], known, held_counts,
                     (source.path, 0, 10**9) if holdout is not None and holdout.whole_file else
                     (source.path, variables[i].scope_start, variables[i].scope_end), flows[i],
-                    holdout.unseen if holdout is not None else frozenset())
+                    holdout.unseen if holdout is not None else frozenset(), names, variables[i].name)
             for i in range(len(variables))]
 
 
@@ -325,8 +364,10 @@ def rank_in_batches(tables: NameTables, source: SourceFile, variables: list[Vari
     candidates is too large a matrix to hold at once."""
     rankings: list[Ranking | None] = []
     view = file_view(tables, source, holdout)
+    names = FileNames(source)
     for start in range(0, len(variables), batch):
-        rankings.extend(rank_many(tables, source, variables[start:start + batch], ids, weights, holdout, view))
+        rankings.extend(rank_many(tables, source, variables[start:start + batch], ids, weights, holdout, view,
+                                  names))
     return rankings
 
 
@@ -764,8 +805,11 @@ class Scorer:
             cue_places = [place for place in self.tables.flow.places.get((cue, name), [])
                           if not _is_own(place, ranking.own_place)]
             places = (cue_places + [p for p in places if p not in cue_places])[:3]
-        if not places and not reason:
-            return None
+        if not places:
+            in_file = ranking.named_in_file(name)  # another variable of the same file is called so
+            if in_file is None and not reason:
+                return None
+            places = [in_file] if in_file is not None else []
         return Suggestion(name, score, places, reason)
 
     def evidence(self, row: int, ranking: Ranking, limit: int = 3) -> list[tuple[str, int]]:

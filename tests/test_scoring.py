@@ -188,3 +188,26 @@ def test_where_few_names_can_be_flagged_every_one_is_and_no_sample_sets_no_thres
         calibrate_by_files(np.zeros(0), np.zeros(0, int), lines, 1.0)
     crowded = np.linspace(0.0, 5.0, 200)  # 200 flaggable names in 10,000 lines: a threshold is needed
     assert calibrate_by_files(crowded, np.arange(200) % 20, lines, 1.0, floor=-10.0) > 4.0
+
+
+FILE_HABIT = '''\
+def mean_reading(readings):
+    glimmerwick = sum(readings)
+    return glimmerwick / len(readings)
+
+
+def mean_delay(delays):
+    x = sum(delays)
+    return x / len(delays)
+'''
+
+
+def test_a_name_the_file_gives_elsewhere_is_offered_with_its_place(stdlib_scorer):
+    # `glimmerwick` is in no standard-library file (the team's code here): only this file backs it.
+    source = analyse(FILE_HABIT, "habits.py", "python")
+    finding, why = suggest_at(stdlib_scorer, source, 7, 5)
+    assert why == "" and finding is not None
+    names = [s.name for s in finding.suggestions]
+    assert "glimmerwick" in names, names
+    offered = finding.suggestions[names.index("glimmerwick")]
+    assert offered.evidence == [("habits.py", 2)], "the other function's variable is the backing"
