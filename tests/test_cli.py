@@ -247,3 +247,13 @@ def test_a_team_can_ask_for_flags_on_any_odd_name(workspace, tmp_path):
     assert manifest["settings"]["flag_contradictions_only"] is False
     default = json.loads(next((workspace / ".cognomen" / "models").glob("*/manifest.json")).read_text())
     assert default["settings"]["flag_contradictions_only"] is True
+
+
+def test_a_small_python_repository_hears_of_the_background(tmp_path):
+    repo = tmp_path / "repo"
+    repo.mkdir()
+    (repo / "meter.py").write_text("def read_meter(port):\n    reading = port.read()\n    return reading\n")
+    result = run_cli("--model-dir", str(tmp_path / "store"), "train", "--quiet", str(repo))
+    assert result.returncode == 0, result.stderr
+    hint = next(line for line in result.stdout.splitlines() if line.strip().startswith("hint"))
+    assert "3 lines of Python" in hint and "--background stdlib" in hint

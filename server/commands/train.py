@@ -118,6 +118,11 @@ def run(args) -> int:
     return OK if result.promoted else NOT_PROMOTED
 
 
+# Below this many lines of Python, the standard library as background lifted "found in top 5" on the
+# pinned small packages of tests/bench/quality.py (DEVELOPERS.md, Quality).
+SMALL_REPOSITORY_LINES = 30_000
+
+
 def summary(result, settings: TrainSettings) -> str:
     """What was learned from what, the threshold, held-out quality and time taken."""
     corpus = result.corpus
@@ -146,6 +151,11 @@ def summary(result, settings: TrainSettings) -> str:
             lines.append(f"  {language:10} suggestions only: {entry.get('suggestions_only', 'no threshold')}")
     if quality:
         lines.append("  held out   " + ", ".join(f"{label(k)} {figure(v)}" for k, v in quality.items()))
+    python_lines = manifest.get("languages", {}).get("python", {}).get("lines", 0)
+    if 0 < python_lines < SMALL_REPOSITORY_LINES and not manifest.get("background"):
+        lines.append(f"  hint       {python_lines:,} lines of Python is little to learn naming from: "
+                     "`--background stdlib` adds the standard library's naming at a lower weight "
+                     "(suggestions still come from your team's names)")
     reuse = manifest.get("reuse", {})
     if reuse:
         lines.append(f"  reused     embeddings {reuse.get('embeddings', '-')}; examples of "
