@@ -94,7 +94,8 @@ class JavaScript(Language):
 
     def occurrence_role(self, tokens: list[Token], j: int, opening: int) -> str:
         following = tokens[j + 1].text if j + 1 < len(tokens) else ""
-        if opening > 0 and j and directly_inside(tokens, opening, j):
+        # The cheap tests first: directly_inside walks back to the opening brace.
+        if opening > 0 and j and following in (":", "?", "(") and directly_inside(tokens, opening, j):
             before = tokens[j - 1].text
             if before in ("{", ",", ";") and following in (":", "?") and tokens[opening - 1].text in _TYPE_BEFORE:
                 return KEY  # a member of an object type, `{ result: T; ctx?: Context }`
