@@ -848,9 +848,12 @@ def _is_own(place: tuple[str, int], own: tuple[str, int, int] | None) -> bool:
 
 
 def dominant_style(names: dict[str, float], default: str = "snake") -> str:
-    """The case style most local names are written in (single lower-case words count for none)."""
+    """The case style most local names are written in. Single lower-case words count for none, nor
+    do single letters: `G` for a graph is shorthand, not a sign the team writes `PascalCase`."""
     votes: dict[str, float] = {}
     for name, count in names.items():
+        if len(name.strip("_")) < 2:
+            continue
         style = case_style(name)
         if style in ("snake", "camel", "pascal", "screaming"):
             votes[style] = votes.get(style, 0) + count

@@ -211,3 +211,11 @@ def test_a_name_the_file_gives_elsewhere_is_offered_with_its_place(stdlib_scorer
     assert "glimmerwick" in names, names
     offered = finding.suggestions[names.index("glimmerwick")]
     assert offered.evidence == [("habits.py", 2)], "the other function's variable is the backing"
+
+
+def test_single_letters_do_not_decide_the_teams_style():
+    from cognomen.model.scoring import dominant_style
+    # networkx names its graphs `G` and `H` tens of thousands of times (counted on networkx 3.4.2
+    # with its tests): shorthand, not PascalCase. Its other locals are snake_case.
+    assert dominant_style({"G": 18359.0, "H": 4000.0, "node_list": 900.0, "edge_data": 700.0}) == "snake"
+    assert dominant_style({"Graph": 50.0, "NodeView": 40.0, "node_list": 10.0}) == "pascal"
