@@ -1,7 +1,8 @@
 """Benchmark: `eval` (the evaluation protocol) on real code in several languages, with ablations.
 
 Corpora: the standard library of the running Python; three pure-Python packages from PyPI in
-different domains; moment's sources from npm (JavaScript); golang.org/x/net from Debian's
+different domains, and networkx once more with its tests; moment's sources from npm
+(JavaScript); golang.org/x/net from Debian's
 golang-golang-x-net-dev (Go). Pinned versions are downloaded at bench time into
 ~/.cache/cognomen-bench (never into the repository). Prints one table per corpus and, with
 --ablate, each lever switched off; writes bench-results/quality.json.
