@@ -189,7 +189,10 @@ def case_style(identifier: str) -> str:
 
 
 def fits_style(identifier: str, style: str) -> bool:
-    """True when an identifier can be written in the given dominant style."""
+    """True when an identifier can be written in the given dominant style; a single letter (`G`,
+    `i`) is shorthand and fits any."""
+    if len(identifier.strip("_")) == 1:
+        return True
     own = case_style(identifier)
     if own == style:
         return True

@@ -219,3 +219,11 @@ def test_single_letters_do_not_decide_the_teams_style():
     # with its tests): shorthand, not PascalCase. Its other locals are snake_case.
     assert dominant_style({"G": 18359.0, "H": 4000.0, "node_list": 900.0, "edge_data": 700.0}) == "snake"
     assert dominant_style({"Graph": 50.0, "NodeView": 40.0, "node_list": 10.0}) == "pascal"
+
+
+def test_a_single_letter_fits_every_style():
+    from cognomen.model.tokens import fits_style
+    # PEP 8 asks for lower_case_with_underscores, yet `G` for a graph, `X` for a matrix are the
+    # scientific Python habit (networkx, numpy's documentation): shorthand, never a style breach.
+    assert fits_style("G", "snake") and fits_style("i", "camel") and fits_style("X", "pascal")
+    assert not fits_style("NodeView", "snake") and not fits_style("node_view", "camel")
