@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 import bisect
+import dataclasses
 import hashlib
 import math
 import re
@@ -14,8 +15,8 @@ from .chunks import PieceCache
 from .corpus import SourceFile, analyse
 from .scopes import Variable
 from .suppression import is_kept
-from .scoring import (IGNORED_NAMES, MIN_FLAGGED_LENGTH, Judgement, Scorer, Suggestion, allowed_mask, rank_candidates,
-                      token_ids)
+from .scoring import (IGNORED_NAMES, MIN_FLAGGED_LENGTH, FileNames, Judgement, Scorer, Suggestion, allowed_mask,
+                      rank_candidates, token_ids)
 from .languages import get_language, language_for_path
 
 
@@ -133,6 +134,22 @@ def check_source(scorer: Scorer, source: SourceFile, threshold: float | None = N
     return findings
 
 
+def _moved_in_file(source: SourceFile, judgements: list[Judgement]) -> list[Judgement]:
+    """Reused judgements with their same-file evidence where it is now: an edit above another
+    function moves the variable a suggestion points at, not the judged scope."""
+    names = None
+    refreshed = []
+    for judgement in judgements:
+        if any(s.in_file for s in judgement.suggestions):
+            names = names or FileNames(source)
+            suggestions = [dataclasses.replace(s, evidence=[(source.path, names.lines[s.name])])
+                           if s.in_file and s.name in names.lines else s
+                           for s in judgement.suggestions if not s.in_file or s.name in names.lines]
+            judgement = dataclasses.replace(judgement, suggestions=suggestions)
+        refreshed.append(judgement)
+    return refreshed
+
+
 class JudgementCache:
     """Judgements of variables whose whole scope is unchanged, reused while a document is edited.
 
@@ -159,7 +176,10 @@ class JudgementCache:
                 self.entries[key] = (judgement.oddness, judgement.suggestions, judgement.features,
                                      judgement.dictated, judgement.flaggable, judgement.agreement)
         self.entries = {key: self.entries[key] for key in keys}
-        return [Judgement(v, *self.entries[k]) for v, k in zip(variables, keys)]
+        judgements = [Judgement(v, *self.entries[k]) for v, k in zip(variables, keys)]
+        if len(missing) < len(variables):
+            judgements = _moved_in_file(source, judgements)
+        return judgements
 
     @staticmethod
     def _key(source: SourceFile, lines: list[int], spans: dict, variable: Variable) -> tuple:

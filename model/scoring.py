@@ -141,6 +141,7 @@ class Suggestion:
     score: float
     evidence: list[tuple[str, int]] = field(default_factory=list)
     reason: str = ""  # what in the variable's flow backs the name, in words
+    in_file: bool = False  # its evidence is where another variable of the same file is so called
 
 
 class FileNames:
@@ -810,6 +811,7 @@ class Scorer:
             if in_file is None and not reason:
                 return None
             places = [in_file] if in_file is not None else []
+            return Suggestion(name, score, places, reason, in_file=in_file is not None)
         return Suggestion(name, score, places, reason)
 
     def evidence(self, row: int, ranking: Ranking, limit: int = 3) -> list[tuple[str, int]]:

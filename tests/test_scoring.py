@@ -227,3 +227,19 @@ def test_a_single_letter_fits_every_style():
     # scientific Python habit (networkx, numpy's documentation): shorthand, never a style breach.
     assert fits_style("G", "snake") and fits_style("i", "camel") and fits_style("X", "pascal")
     assert not fits_style("NodeView", "snake") and not fits_style("node_view", "camel")
+
+
+def test_an_editor_reuses_a_judgement_but_follows_the_file_name_it_points_at(stdlib_scorer):
+    from cognomen.model.findings import JudgementCache
+    cache = JudgementCache()
+
+    def glimmerwick_evidence(text):
+        source = analyse(text, "habits.py", "python")
+        x = [v for v in source.variables if v.name == "x"]
+        judgement = cache.judge(stdlib_scorer, source, x, None)[0]
+        return next(s.evidence for s in judgement.suggestions if s.name == "glimmerwick")
+
+    assert glimmerwick_evidence(FILE_HABIT) == [("habits.py", 2)]
+    # Two lines added above the other function: `x`'s scope reads the same, so its judgement is
+    # reused, but the variable its suggestion points at is now on line 4.
+    assert glimmerwick_evidence("# Habits of the meter team.\n\n" + FILE_HABIT) == [("habits.py", 4)]
