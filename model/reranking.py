@@ -42,14 +42,17 @@ def file_names(tables: NameTables, ranking: Ranking, allowed: np.ndarray, bound:
     if names is None:
         return []
     reserved = reserved_words(ranking.language)
+    ordered = names.most_given()
+    positions = names.table_positions(tables, ranking.language, ranking.rows)
+    offered = np.zeros(len(ordered), dtype=bool)  # the table offers it already
+    inside = positions >= 0
+    offered[inside] = allowed[positions[inside]]
     found = []
-    for name in names.most_given():
+    for k in np.flatnonzero(~offered).tolist():
+        name = ordered[k]
         if name == current or name in bound or name in reserved or name in IGNORED_NAMES or name.startswith("_") \
                 or len(name) < 2 or ranking.named_in_file(name) is None:
             continue
-        row = tables.row_by_name.get((ranking.language, name))
-        if row is not None and allowed[int(np.searchsorted(ranking.rows, row))]:
-            continue  # the table offers it already
         found.append(name)
         if len(found) >= MAX_FROM_FILE:
             break
@@ -91,7 +94,7 @@ def shortlist_features(tables: NameTables, ranking: Ranking, allowed: np.ndarray
         count, embedding, ranking.lexical_scores[top], combined[top], np.log1p(used.astype(np.float64)),
         np.zeros(len(top)), np.log1p(np.arange(len(top))), count - best_count, embedding - best_embedding,
         tables.name_parts[table_rows], [1.0 if name in ranking.context_identifiers else 0.0 for name in names],
-        [0.0 if ranking.named_in_file(name) is None else 1.0 for name in names],
+        [ranking.in_file(name) for name in names],
     ]).reshape(len(top), len(TABLE_FEATURES))
     features, totals = [], []
     listed = set(names)
@@ -132,7 +135,7 @@ def _row(count, embedding, lexical, combined, name_count, not_in_table, rank, be
     return [count, embedding, lexical, combined, math.log1p(name_count), 1.0 if not_in_table else 0.0,
             math.log1p(rank), count - best_count, embedding - best_embedding,
             float(len(split_identifier(name))), 1.0 if name in ranking.context_identifiers else 0.0,
-            0.0 if ranking.named_in_file(name) is None else 1.0]
+            ranking.in_file(name)]
 
 
 class Reranker(LinearModel):

@@ -147,7 +147,7 @@ class Suggestion:
 class FileNames:
     """The names a file gives its variables: how many variables take each, and where the first is."""
 
-    __slots__ = ("path", "counts", "lines", "_ordered")
+    __slots__ = ("path", "counts", "lines", "_ordered", "_positions")
 
     def __init__(self, source: SourceFile):
         self.path = source.path
@@ -158,6 +158,17 @@ class FileNames:
             if variable.name not in self.lines:
                 self.lines[variable.name] = source.tokens[variable.occurrences[0]].line
         self._ordered: list[str] | None = None
+        self._positions: dict[str, np.ndarray] = {}
+
+    def table_positions(self, tables: "NameTables", language: str, rows: np.ndarray) -> np.ndarray:
+        """For each of `most_given()`, its position among a language's candidate rows, or -1."""
+        found = self._positions.get(language)
+        if found is None:
+            table_rows = [tables.row_by_name.get((language, name), -1) for name in self.most_given()]
+            found = np.array([int(np.searchsorted(rows, row)) if row >= 0 else -1 for row in table_rows],
+                             dtype=np.int64)
+            self._positions[language] = found
+        return found
 
     def most_given(self) -> list[str]:
         """The names, those the most variables take first."""
@@ -197,6 +208,11 @@ class Ranking:
     unseen: frozenset[str] = frozenset()  # tokens a model without the held-out file would not know
     file_names: "FileNames | None" = None  # the names of the file's variables, where each is first given
     name: str = ""  # the variable's own name when ranked
+
+    def in_file(self, name: str) -> float:
+        """1.0 when another variable of the same file is called `name` (named_in_file, faster)."""
+        names = self.file_names
+        return 1.0 if names is not None and names.counts.get(name, 0) > (name == self.name) else 0.0
 
     def named_in_file(self, name: str) -> tuple[str, int] | None:
         """Where another variable of the same file is called `name` (path, line), or None."""
