@@ -51,7 +51,7 @@ def file_names(tables: NameTables, ranking: Ranking, allowed: np.ndarray, bound:
     for k in np.flatnonzero(~offered).tolist():
         name = ordered[k]
         if name == current or name in bound or name in reserved or name in IGNORED_NAMES or name.startswith("_") \
-                or len(name) < 2 or ranking.named_in_file(name) is None:
+                or len(name) < 2 or not names.has_other(name, ranking.name):
             continue
         found.append(name)
         if len(found) >= MAX_FROM_FILE:

@@ -176,12 +176,13 @@ class FileNames:
             self._ordered = sorted(self.counts, key=lambda name: -self.counts[name])
         return self._ordered
 
+    def has_other(self, name: str, own: str) -> bool:
+        """Whether a variable other than the one called `own` is called `name`."""
+        return self.counts.get(name, 0) > (name == own)
+
     def other(self, name: str, own: str) -> tuple[str, int] | None:
         """Where a variable other than the one called `own` is called `name`."""
-        count = self.counts.get(name, 0)
-        if count == 0 or (name == own and count == 1):
-            return None
-        return self.path, self.lines[name]
+        return (self.path, self.lines[name]) if self.has_other(name, own) else None
 
 
 @dataclass
@@ -210,9 +211,8 @@ class Ranking:
     name: str = ""  # the variable's own name when ranked
 
     def in_file(self, name: str) -> float:
-        """1.0 when another variable of the same file is called `name` (named_in_file, faster)."""
-        names = self.file_names
-        return 1.0 if names is not None and names.counts.get(name, 0) > (name == self.name) else 0.0
+        """1.0 when another variable of the same file is called `name`, else 0.0 (a feature)."""
+        return 1.0 if self.file_names is not None and self.file_names.has_other(name, self.name) else 0.0
 
     def named_in_file(self, name: str) -> tuple[str, int] | None:
         """Where another variable of the same file is called `name` (path, line), or None."""

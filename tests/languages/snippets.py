@@ -25,6 +25,11 @@ def variables(text: str, language: str) -> dict[str, tuple[str, list[tuple[int, 
     return found
 
 
+def cues(text: str, path: str, language: str) -> dict[str, set[str]]:
+    """name -> the name-flow cues of the variable so called, for a snippet with one variable per name."""
+    return {v.name: set(v.cues) for v in analyse(text, path, language).variables}
+
+
 def variable_list(text: str, language: str) -> list[tuple[str, str, list[tuple[int, int]]]]:
     source = analyse(text, "snippet", language)
     return [(v.name, v.kind, [(source.tokens[i].line, source.tokens[i].column) for i in v.occurrences])

@@ -4,7 +4,7 @@ types; worked by hand (no .NET toolchain is assumed on the machine)."""
 from cognomen.model.languages import get_language
 from cognomen.model.scopes import LOCAL, PARAMETER
 
-from .snippets import rename, variables
+from .snippets import cues, rename, variables
 
 SOURCE = """\
 class Meter {
@@ -71,8 +71,7 @@ def test_interpolated_strings_and_argument_labels_worked_by_hand():
 
 
 def test_flow_cues_worked_by_hand():
-    from cognomen.model.corpus import analyse
-    cues = {v.name: set(v.cues) for v in analyse(SOURCE, "Meter.cs", "csharp").variables}
-    assert {"parameter:Meter#1", "type:many int"} <= cues["rest"], "`params int[] rest`"
-    assert "keyword:timeout" in cues["sum"], "a named argument, `timeout: sum`"
-    assert "call:Options" in cues["options"] and "call:Send" in cues["last"]
+    found = cues(SOURCE, "Meter.cs", "csharp")
+    assert {"parameter:Meter#1", "type:many int"} <= found["rest"], "`params int[] rest`"
+    assert "keyword:timeout" in found["sum"], "a named argument, `timeout: sum`"
+    assert "call:Options" in found["options"] and "call:Send" in found["last"]

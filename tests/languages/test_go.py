@@ -4,7 +4,7 @@
 from cognomen.model.corpus import analyse
 from cognomen.model.scopes import LOCAL, PARAMETER
 
-from .snippets import rename, variables
+from .snippets import cues, rename, variables
 
 SOURCE = """\
 package irrigation
@@ -108,20 +108,20 @@ def test_a_package_named_like_a_variable_stays_the_package():
 
 
 def test_flow_cues_worked_by_hand():
-    cues = {v.name: set(v.cues) for v in analyse(SOURCE, "plan.go", "go").variables}
-    assert {"parameter:Plan#0", "type:Reader", "argument:Wrap#0"} <= cues["r"], "`r io.Reader` passed to Wrap"
-    assert "type:many string" in cues["zones"] and "holds:zone" in cues["zones"], "`zones ...string`, ranged over"
-    assert "iterated:zones" in cues["zone"] and "key_of:zones" in cues["index"]
-    assert {"keyword:Low"} <= cues["low"] and "keyword:Count" in cues["count"], "composite-literal keys"
-    assert {"call:Config", "receiver:v1"} <= cues["cfg"]
-    assert not cues["n"] and not cues["ok"], "`n, ok := lookup(...)` gives neither the call's result alone"
+    found = cues(SOURCE, "plan.go", "go")
+    assert {"parameter:Plan#0", "type:Reader", "argument:Wrap#0"} <= found["r"], "`r io.Reader` passed to Wrap"
+    assert "type:many string" in found["zones"] and "holds:zone" in found["zones"], "`zones ...string`, ranged over"
+    assert "iterated:zones" in found["zone"] and "key_of:zones" in found["index"]
+    assert {"keyword:Low"} <= found["low"] and "keyword:Count" in found["count"], "composite-literal keys"
+    assert {"call:Config", "receiver:v1"} <= found["cfg"]
+    assert not found["n"] and not found["ok"], "`n, ok := lookup(...)` gives neither the call's result alone"
 
 
 def test_named_results_are_what_the_function_returns_not_its_parameters():
-    cues = {v.name: set(v.cues) for v in analyse(SOURCE, "plan.go", "go").variables}
-    assert "parameter:parse#0" in cues["line"]
-    assert "returned:parse" in cues["value"] and "returned:parse" in cues["err"]
-    assert not any(cue.startswith("parameter:") for cue in cues["value"] | cues["err"]), \
+    found = cues(SOURCE, "plan.go", "go")
+    assert "parameter:parse#0" in found["line"]
+    assert "returned:parse" in found["value"] and "returned:parse" in found["err"]
+    assert not any(cue.startswith("parameter:") for cue in found["value"] | found["err"]), \
         "a caller's second argument is not the named result `value`"
 
 
@@ -132,14 +132,14 @@ def test_a_lone_range_variable_takes_keys_not_elements():
             "\tfor left := range refs {\n\t\tn += len(left)\n\t}\n"
             "\tfor i := range rows {\n\t\tn += i\n\t}\n"
             "\tfor _, row := range rows {\n\t\tn += row\n\t}\n\treturn n\n}\n")
-    cues = {v.name: set(v.cues) for v in analyse(text, "p.go", "go").variables}
-    assert "key_of:refs" in cues["left"] and "iterated:refs" not in cues["left"]
-    assert "key_of:rows" in cues["i"] and "iterated:rows" in cues["row"]
+    found = cues(text, "p.go", "go")
+    assert "key_of:refs" in found["left"] and "iterated:refs" not in found["left"]
+    assert "key_of:rows" in found["i"] and "iterated:rows" in found["row"]
 
 
 def test_a_chained_call_gives_no_cue_of_its_first_call():
     source = "package p\n\nfunc save(w io.Writer, v any) error {\n\terr := json.NewEncoder(w).Encode(v)\n" \
              "\tenc := json.NewEncoder(w)\n\t_ = enc\n\treturn err\n}\n"
-    cues = {v.name: set(v.cues) for v in analyse(source, "save.go", "go").variables}
-    assert not any(cue.startswith(("call:", "receiver:")) for cue in cues["err"]), cues["err"]
-    assert "call:NewEncoder" in cues["enc"]
+    found = cues(source, "save.go", "go")
+    assert not any(cue.startswith(("call:", "receiver:")) for cue in found["err"]), found["err"]
+    assert "call:NewEncoder" in found["enc"]

@@ -2,7 +2,7 @@
 
 from cognomen.model.scopes import LOCAL, PARAMETER
 
-from .snippets import rename, run, variables
+from .snippets import cues, rename, run, variables
 
 PROGRAM = """\
 import java.util.*;
@@ -127,11 +127,10 @@ def test_real_shapes_worked_by_hand(tmp_path):
 
 
 def test_flow_cues_worked_by_hand():
-    from cognomen.model.corpus import analyse
-    cues = {v.name: set(v.cues) for v in analyse(PROGRAM, "Snippet.java", "java").variables}
-    assert {"parameter:total#1", "holds:amount"} <= cues["amounts"]
-    assert {"type:int", "iterated:amounts"} <= cues["amount"]
-    assert {"type:many String", "parameter:describe#0"} <= cues["items"], "`List<String> items`"
-    assert {"type:many String", "call:ArrayList"} <= cues["sorted"], "`new ArrayList<>(items)`"
-    assert {"call:get", "receiver:sorted"} <= cues["first"]
-    assert {"type:Snippet", "call:Snippet"} <= cues["counter"]
+    found = cues(PROGRAM, "Snippet.java", "java")
+    assert {"parameter:total#1", "holds:amount"} <= found["amounts"]
+    assert {"type:int", "iterated:amounts"} <= found["amount"]
+    assert {"type:many String", "parameter:describe#0"} <= found["items"], "`List<String> items`"
+    assert {"type:many String", "call:ArrayList"} <= found["sorted"], "`new ArrayList<>(items)`"
+    assert {"call:get", "receiver:sorted"} <= found["first"]
+    assert {"type:Snippet", "call:Snippet"} <= found["counter"]

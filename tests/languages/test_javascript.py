@@ -3,7 +3,7 @@
 from cognomen.model.corpus import analyse
 from cognomen.model.scopes import LOCAL, PARAMETER
 
-from .snippets import rename, run, variable_list, variables
+from .snippets import cues, rename, run, variable_list, variables
 
 # Destructuring with defaults, rest elements and holes; object shorthand in patterns and in
 # literals (a rename must keep the property's name); keys that merely look like variables.
@@ -92,6 +92,6 @@ def test_for_in_takes_keys_and_for_of_takes_elements():
     text = ("function total(prices, orders) {\n  let sum = 0;\n  for (const name in prices) {\n"
             "    sum += prices[name];\n  }\n  for (const order of orders) {\n    sum += order.amount;\n  }\n"
             "  return sum;\n}\n")
-    cues = {v.name: set(v.cues) for v in analyse(text, "total.js", "javascript").variables}
-    assert "key_of:prices" in cues["name"] and "iterated:prices" not in cues["name"]
-    assert "iterated:orders" in cues["order"]
+    found = cues(text, "total.js", "javascript")
+    assert "key_of:prices" in found["name"] and "iterated:prices" not in found["name"]
+    assert "iterated:orders" in found["order"]

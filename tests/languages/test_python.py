@@ -11,7 +11,7 @@ from cognomen.model.scopes import PARAMETER, find_variables
 from cognomen.model.tokens import COMMENT, KEYWORD, NAME, NUMBER, OPERATOR, STRING
 
 from ..conftest import STDLIB
-from .snippets import rename, run, variable_list
+from .snippets import cues, rename, run, variable_list
 
 
 def kinds(text, language):
@@ -205,33 +205,31 @@ def open_session(settings, frames, rows):
 
 
 def test_flow_cues_worked_by_hand():
-    from cognomen.model.corpus import analyse
-    cues = {v.name: set(v.cues) for v in analyse(FLOW, "flow.py", "python").variables}
-    assert cues["session"] >= {"call:create_session", "argument:send#0"}
-    assert cues["frame"] >= {"call:get", "receiver:frames", "argument:send#1"}
-    assert "receiver:rows" in cues["row"], "an item of `rows`"
-    assert "key:cmd" in cues["cmd"] and "key:HOME" in cues["home"], "a string key names the value it reads"
-    assert "store:home" in cues["home"], "`settings.home = home`"
-    assert "attribute:retries" in cues["retries"]
-    assert "iterated:users" in cues["user"] and "added_to:users" in cues["user"]
-    assert {"holds:user", "returned:open_session"} <= cues["users"]
-    assert {"parameter:open_session#0", "parameter:open_session#1"} <= cues["settings"] | cues["frames"]
+    found = cues(FLOW, "flow.py", "python")
+    assert found["session"] >= {"call:create_session", "argument:send#0"}
+    assert found["frame"] >= {"call:get", "receiver:frames", "argument:send#1"}
+    assert "receiver:rows" in found["row"], "an item of `rows`"
+    assert "key:cmd" in found["cmd"] and "key:HOME" in found["home"], "a string key names the value it reads"
+    assert "store:home" in found["home"], "`settings.home = home`"
+    assert "attribute:retries" in found["retries"]
+    assert "iterated:users" in found["user"] and "added_to:users" in found["user"]
+    assert {"holds:user", "returned:open_session"} <= found["users"]
+    assert {"parameter:open_session#0", "parameter:open_session#1"} <= found["settings"] | found["frames"]
     # Never from the variable's own occurrences: `timeout=settings.timeout` names the keyword, not settings.
-    assert "keyword:timeout" not in cues["settings"]
+    assert "keyword:timeout" not in found["settings"]
 
 
 def test_a_keyword_bag_names_its_keys_not_its_values():
-    from cognomen.model.corpus import analyse
     text = ("def build(**fields):\n    pairs = []\n    for key, value in fields.items():\n        pairs.append(value)\n"
             "    for entry in fields.values():\n        pairs.append(entry)\n    for name in fields:\n"
             "        pairs.append(name)\n    return pairs\n\n\n"
             "def walk(fields):\n    for label, field in fields.items():\n        print(label, field)\n")
-    by_name = {v.name: set(v.cues) for v in analyse(text, "bag.py", "python").variables}
-    assert "key_of:fields" in by_name["key"], "the keys of a `**fields` bag are keyword names"
-    assert not any(cue.startswith("iterated:") for cue in by_name["value"] | by_name["entry"]), \
+    found = cues(text, "bag.py", "python")
+    assert "key_of:fields" in found["key"], "the keys of a `**fields` bag are keyword names"
+    assert not any(cue.startswith("iterated:") for cue in found["value"] | found["entry"]), \
         "what callers pass in a `**fields` bag may be anything"
-    assert "key_of:fields" in by_name["name"], "iterating the bag gives its keys"
-    assert "iterated:fields" in by_name["field"], "a plain mapping's values still get their collection's cue"
+    assert "key_of:fields" in found["name"], "iterating the bag gives its keys"
+    assert "iterated:fields" in found["field"], "a plain mapping's values still get their collection's cue"
 
 
 def test_a_value_whose_kind_the_code_tests_is_marked_and_not_counted():
@@ -245,9 +243,7 @@ def test_a_value_whose_kind_the_code_tests_is_marked_and_not_counted():
 
 
 def test_a_constructors_parameters_are_indexed_under_its_class():
-    from cognomen.model.corpus import analyse
-    source = analyse("class Meter:\n    def __init__(self, port, scale=1):\n        self.port = port\n\n"
-                     "def make(device):\n    return Meter(device)\n", "meter.py", "python")
-    cues = {v.name: set(v.cues) for v in source.variables}
-    assert "parameter:Meter#0" in cues["port"] and "store:port" in cues["port"]
-    assert "argument:Meter#0" in cues["device"], "callers write `Meter(...)`: the cross cue meets the parameter"
+    found = cues("class Meter:\n    def __init__(self, port, scale=1):\n        self.port = port\n\n"
+                 "def make(device):\n    return Meter(device)\n", "meter.py", "python")
+    assert "parameter:Meter#0" in found["port"] and "store:port" in found["port"]
+    assert "argument:Meter#0" in found["device"], "callers write `Meter(...)`: the cross cue meets the parameter"

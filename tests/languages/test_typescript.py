@@ -3,7 +3,7 @@
 from cognomen.model.corpus import analyse
 from cognomen.model.scopes import LOCAL, PARAMETER
 
-from .snippets import rename, variables
+from .snippets import cues, rename, variables
 
 SOURCE = """\
 export function describe(first: string, third?: number, ...args: string[]): string {
@@ -103,10 +103,10 @@ def test_zod_shapes_worked_by_hand():
 
 
 def test_flow_cues_worked_by_hand():
-    cues = {v.name: set(v.cues) for v in analyse(SOURCE, "meter.ts", "typescript").variables}
-    assert {"parameter:describe#1", "type:number"} <= cues["third"]
-    assert "type:many string" in cues["args"], "`...args: string[]`"
-    assert {"parameter:read#0", "type:Sensor"} <= cues["sensor"]
-    assert "keyword:gain" in cues["factor"], "`{ offset, gain: factor }` binds what `gain` holds"
-    assert "returned:read" in cues["reading"]
-    assert not any(cue.startswith("call:") for cue in cues["value"]), "`sensor!.value` is no call"
+    found = cues(SOURCE, "meter.ts", "typescript")
+    assert {"parameter:describe#1", "type:number"} <= found["third"]
+    assert "type:many string" in found["args"], "`...args: string[]`"
+    assert {"parameter:read#0", "type:Sensor"} <= found["sensor"]
+    assert "keyword:gain" in found["factor"], "`{ offset, gain: factor }` binds what `gain` holds"
+    assert "returned:read" in found["reading"]
+    assert not any(cue.startswith("call:") for cue in found["value"]), "`sensor!.value` is no call"
