@@ -196,7 +196,6 @@ def train_repository(path: Path, store: Path, settings: TrainSettings, policy: P
     }
     promoted, reason = promotion_check(public(trained.quality), current_manifest.get("quality", {}) if current_manifest else {}, policy)
     manifest["promotion_check"] = reason
-    report("saving")  # the last moment to stop: from here the model is written and promoted
     directory = persistence.save(store, trained, manifest, refused=not promoted)
     model_id = directory.name
     written = json.loads((directory / bundle.MANIFEST).read_text(encoding="utf-8"))

@@ -145,14 +145,3 @@ def test_a_model_of_an_older_format_is_refused_with_retrain(small_store, tmp_pat
     (model / "manifest.json").write_text(json.dumps(manifest))
     with pytest.raises(ModelError, match=f"has format 3; this cognomen reads format {bundle.FORMAT_VERSION}: retrain"):
         load_scorer(copy)
-
-
-def test_an_interrupt_python_dropped_still_stops_before_anything_is_written(tmp_path):
-    # Python drops an exception raised while a finaliser runs ("Exception ignored in ..."): the
-    # run must still stop at its next step, before the model is written.
-    from cognomen.server.commands.train import TrainReport
-    report = TrainReport(quiet=True)
-    with pytest.raises(KeyboardInterrupt):
-        report.interrupt(signal.SIGINT, None)
-    with pytest.raises(KeyboardInterrupt):
-        report("saving")

@@ -2,8 +2,6 @@
 
 from __future__ import annotations
 
-import signal
-import threading
 import time
 
 from cognomen.model.measures import figure, label
@@ -54,17 +52,8 @@ class TrainReport:
     def __init__(self, quiet: bool):
         self.quiet = quiet
         self.last = 0.0
-        self.interrupted = False
-
-    def interrupt(self, signum, frame) -> None:
-        """Ctrl-C: stop now, and remember it. Python drops an exception raised while a finaliser
-        runs, so every later event stops the run again, before anything is written."""
-        self.interrupted = True
-        raise KeyboardInterrupt
 
     def __call__(self, event: str, *args) -> None:
-        if self.interrupted:
-            raise KeyboardInterrupt
         if self.quiet:
             return
         now = time.monotonic()
@@ -94,23 +83,15 @@ def run(args) -> int:
     if args.reproducible:
         settings.workers = 1
     policy = PromotionPolicy(tolerance=args.tolerance, force=args.force)
-    report = TrainReport(args.quiet)
-    main_thread = threading.current_thread() is threading.main_thread()  # only there may a handler be set
-    default_handler = signal.getsignal(signal.SIGINT)
-    if main_thread:
-        signal.signal(signal.SIGINT, report.interrupt)
     try:
         result = train_repository(path.resolve(), store, settings, policy, keep=args.keep,
-                                  if_changed=args.if_changed, report=report,
+                                  if_changed=args.if_changed, report=TrainReport(args.quiet),
                                   background=args.background, from_scratch=args.from_scratch)
     except NothingToLearn as error:
         raise UsageError(str(error)) from None
     except KeyboardInterrupt:
         say("training stopped; the current model is unchanged")
         return INTERRUPTED
-    finally:
-        if main_thread:
-            signal.signal(signal.SIGINT, default_handler)
     if result.unchanged:
         print(f"nothing to do: {result.reason} ({result.model_id})")
         return OK
