@@ -16,6 +16,7 @@ from itertools import repeat
 from pathlib import Path
 
 from .chunks import PieceCache, read_python
+from .forked import ignore_interrupts
 from .languages import GENERATED_SUFFIXES, get_language, language_for_path, lex
 from .languages.python_scopes import python_variables
 from .scopes import Variable
@@ -428,7 +429,7 @@ def _load_corpus(selection: Selection, cache: TokenCache, workers: int | None, p
             progress(done, len(pending))
 
     if len(pending) > 8 and workers > 1:
-        with ProcessPoolExecutor(max_workers=workers) as pool:
+        with ProcessPoolExecutor(max_workers=workers, initializer=ignore_interrupts) as pool:
             for relative, result in pool.map(_lex_job, pending, chunksize=8):
                 accept(relative, result)
     else:

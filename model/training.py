@@ -20,6 +20,7 @@ import numpy as np
 from .corpus import Corpus, SourceFile
 from .counts import FileCounts, build_tables, count_file, evidence_vectors, forget_file
 from .flow import build_index
+from .forked import can_fork, forked_map, ignore_interrupts
 from .overrides import inherited_from, repository_classes
 from .reuse import ExampleStore, PreviousVectors
 from .reranking import TABLE_FEATURES, Reranker, fit_reranker, shortlist_features
@@ -152,7 +153,7 @@ class EmbeddingRun:
         self.started = time.monotonic()
         self.result: tuple[np.ndarray, np.ndarray, float] | None = None
         self.process = None
-        if not overlap or "fork" not in multiprocessing.get_all_start_methods():
+        if not overlap or not can_fork():
             inputs, outputs = train_embeddings(files, vocabulary, settings, progress, previous)
             self.result = (inputs, outputs, time.monotonic() - self.started)
             return
@@ -204,6 +205,7 @@ class EmbeddingRun:
 
 
 def _embeddings_child(sender, files, vocabulary, settings, previous) -> None:
+    ignore_interrupts()
     started = time.monotonic()
     try:
         inputs, outputs = train_embeddings(files, vocabulary, settings,
@@ -447,29 +449,16 @@ def collect_examples(tables: NameTables, files: list[SourceFile], shares: dict[s
     return examples
 
 
-_SHARED: tuple = ()  # what forked scoring processes read: set just before they start
-
-
 def _score_files(tables: NameTables, files: list[SourceFile], shares: dict[str, FileCounts], seed: int,
                  weights: Weights | None, workers: int) -> list[FileExamples]:
-    if workers <= 1 or len(files) < 8 or "fork" not in multiprocessing.get_all_start_methods():
-        return [file_examples(tables, source, shares[source.path], seed, weights) for source in files]
-    global _SHARED
-    _SHARED = (tables, files, shares, seed, weights)
-    try:
-        with multiprocessing.get_context("fork").Pool(min(workers, len(files))) as pool:
-            # Larger files first, so that the processes finish together.
-            order = sorted(range(len(files)), key=lambda k: -len(files[k].variables))
-            results = dict(zip(order, pool.map(_score_shared, order, chunksize=1)))
-    finally:
-        _SHARED = ()
-    return [results[k] for k in range(len(files))]
+    def score(source: SourceFile) -> FileExamples:
+        return file_examples(tables, source, shares[source.path], seed, weights)
 
-
-def _score_shared(number: int) -> FileExamples:
-    tables, files, shares, seed, weights = _SHARED
-    source = files[number]
-    return file_examples(tables, source, shares[source.path], seed, weights)
+    if len(files) < 8:
+        return [score(source) for source in files]
+    # Larger files first, so that the processes finish together.
+    order = sorted(range(len(files)), key=lambda k: -len(files[k].variables))
+    return forked_map(score, files, workers, order)
 
 
 KEPT_WEIGHT = 5  # a name the team kept on purpose counts as this many fitting names for the detector

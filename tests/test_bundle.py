@@ -123,15 +123,17 @@ def test_interrupt_is_a_clean_stop(tmp_path):
     (repo / "a.py").write_text("def f(value):\n    return value\n")
     store = tmp_path / "store"
     process = subprocess.Popen([sys.executable, "-m", "cognomen", "--model-dir", str(store), "train",
-                                "--background", "stdlib", "--epochs", "20", str(repo)],
+                                "--background", "stdlib", "--epochs", "20", str(repo)], start_new_session=True,
                                stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True)
     time.sleep(5)
-    process.send_signal(signal.SIGINT)
+    os.killpg(process.pid, signal.SIGINT)  # as Ctrl-C in a terminal: to every process of the group
     out, err = process.communicate(timeout=120)
     assert process.returncode == 130
     assert "Traceback" not in err
     assert "current model is unchanged" in err
     assert bundle.current_model_id(store) is None
+    with pytest.raises(ProcessLookupError):  # no worker process outlives the command
+        os.killpg(process.pid, 0)
 
 
 def test_a_model_of_an_older_format_is_refused_with_retrain(small_store, tmp_path):
