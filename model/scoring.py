@@ -567,28 +567,37 @@ FEATURE_NAMES = (
 
 def detection_features(tables: NameTables, ranking: Ranking, allowed: np.ndarray, fit: NameFit,
                        name: str, variable: Variable) -> np.ndarray:
-    """The detector's inputs for one variable under one name."""
-    combined = np.where(allowed, ranking.combined, -np.inf)
-    best = int(np.argmax(combined))
+    """The detector's inputs for one variable under one name. Where no other name may be
+    offered, the best alternative counts as level with the current name (gaps of 0)."""
     row = tables.row_by_name.get((ranking.language, name))
     name_count = ranking.name_count(tables, row) if row is not None else 0.0
-    if ranking.embedding_scores.any():
-        best_embedding = float(np.max(np.where(allowed, ranking.embedding_scores, -np.inf)))
-    else:  # embeddings off: every candidate's embedding score is 0
-        best_embedding = 0.0 if allowed.any() else -math.inf
+    if allowed.any():
+        combined = np.where(allowed, ranking.combined, -np.inf)
+        best = int(np.argmax(combined))
+        combined_gap = float(combined[best]) - fit.combined
+        count_gap = float(np.max(np.where(allowed, ranking.count_scores, -np.inf))) - fit.count
+        # Embeddings off: every candidate's embedding score is 0.
+        best_embedding = (float(np.max(np.where(allowed, ranking.embedding_scores, -np.inf)))
+                          if ranking.embedding_scores.any() else 0.0)
+        embedding_gap = best_embedding - fit.embedding
+        lexical_best = float(ranking.lexical_scores[best])
+        count_gap_top1 = float(ranking.count_scores[best]) - fit.count
+    else:
+        combined_gap = count_gap = embedding_gap = count_gap_top1 = 0.0
+        lexical_best = fit.lexical
     return np.array([
-        float(combined[best]) - fit.combined,
-        float(np.max(np.where(allowed, ranking.count_scores, -np.inf))) - fit.count,
-        best_embedding - fit.embedding,
+        combined_gap,
+        count_gap,
+        embedding_gap,
         fit.lexical,
-        float(ranking.lexical_scores[best]),
+        lexical_best,
         math.log1p(fit.rank),
         math.log1p(name_count),
         1.0 if fit.known else 0.0,
         math.log(ranking.occurrences),
         1.0 if variable.kind == "parameter" else 0.0,
         fit.embedding,
-        float(ranking.count_scores[best]) - fit.count,
+        count_gap_top1,
         fit.parts_known,
         *_flow_detection(ranking.flow, name),
     ], dtype=np.float64)

@@ -10,7 +10,8 @@ from scipy import special, stats
 from cognomen.model.corpus import analyse
 from cognomen.model.evaluation import false_alarms_per_kloc, recovery_at, threshold_for_budget
 from cognomen.model.findings import check_source, suggest_at
-from cognomen.model.scoring import _logsumexp, fit_detector, lexical_fit, reserved_words
+from cognomen.model.scoring import (_logsumexp, allowed_mask, detection_features, fit_detector, lexical_fit, name_fit,
+                                    rank_in_batches, reserved_words, token_ids, FEATURE_NAMES)
 from cognomen.model.training import auc, calibrate, rename, seed_misname
 
 from .conftest import HELD_OUT, STDLIB
@@ -200,6 +201,23 @@ def mean_delay(delays):
     x = sum(delays)
     return x / len(delays)
 '''
+
+
+def test_with_no_other_name_allowed_the_detector_still_reads_numbers(stdlib_scorer):
+    # A one-file repository with a background once gave every such variable gaps of -inf, the
+    # detector's standardising mean NaN, and a detection AUC of 0.5.
+    tables = stdlib_scorer.tables
+    source = analyse("def total(values):\n    count = len(values)\n    return count\n", "t.py", "python")
+    variable = next(v for v in source.variables if v.name == "count")
+    [ranking] = rank_in_batches(tables, source, [variable], token_ids(source, tables.vocabulary), stdlib_scorer.weights)
+    fit = name_fit(tables, ranking, "count", stdlib_scorer.weights)
+    allowed = allowed_mask(tables, ranking, variable.bound_names, variable.name)
+    assert allowed.any()
+    with_others = detection_features(tables, ranking, allowed, fit, "count", variable)
+    alone = detection_features(tables, ranking, np.zeros_like(allowed), fit, "count", variable)
+    assert np.isfinite(with_others).all() and np.isfinite(alone).all()
+    gaps = [FEATURE_NAMES.index(name) for name in ("combined_gap", "count_gap", "embedding_gap", "count_current_gap_top1")]
+    assert (alone[gaps] == 0).all() and (with_others[gaps] != 0).any()
 
 
 def test_a_name_the_file_gives_elsewhere_is_offered_with_its_place(stdlib_scorer):
