@@ -50,7 +50,7 @@ class TrainSettings:
     workers: int = field(default_factory=lambda: os.cpu_count() or 1)
     names_per_language: int = 5_000
     flag_budget: float = 1.0  # flags per 1,000 non-blank lines of clean code
-    examples_per_language: int = 8_000  # variables scored as if unseen, to learn from and calibrate on
+    examples_per_language: int = 6_000  # variables scored as if unseen, to learn from and calibrate on
     embedding_weight: float = 0.0  # measured: the embeddings leak into scores of files the model has seen
     lexical_weight: float = 3.0
     count_weight: float = 1.0
