@@ -16,7 +16,7 @@ from itertools import repeat
 from pathlib import Path
 
 from .chunks import PieceCache, read_python
-from .forked import ignore_interrupts
+from .forked import ignore_interrupts, interrupts_deferred
 from .languages import GENERATED_SUFFIXES, get_language, language_for_path, lex
 from .languages.python_scopes import python_variables
 from .scopes import Variable
@@ -430,8 +430,14 @@ def _load_corpus(selection: Selection, cache: TokenCache, workers: int | None, p
 
     if len(pending) > 8 and workers > 1:
         with ProcessPoolExecutor(max_workers=workers, initializer=ignore_interrupts) as pool:
-            for relative, result in pool.map(_lex_job, pending, chunksize=8):
-                accept(relative, result)
+            try:
+                with interrupts_deferred():  # every worker process is forked here, as the jobs are handed out
+                    results = pool.map(_lex_job, pending, chunksize=8)
+                for relative, result in results:
+                    accept(relative, result)
+            except BaseException:
+                pool.shutdown(cancel_futures=True)  # the files not yet begun are dropped
+                raise
     else:
         for job in pending:
             accept(*_lex_file(job))

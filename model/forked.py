@@ -7,8 +7,10 @@ traceback of its own.
 
 from __future__ import annotations
 
+import contextlib
 import multiprocessing
 import signal
+import threading
 import traceback
 from multiprocessing.connection import wait
 from typing import Callable, Sequence, TypeVar
@@ -26,6 +28,26 @@ def ignore_interrupts() -> None:
     signal.signal(signal.SIGINT, signal.SIG_IGN)
 
 
+@contextlib.contextmanager
+def interrupts_deferred():
+    """Hold back Ctrl-C while processes are forked, and raise it once they are.
+
+    Python runs callbacks of its own around a fork (the logging module's lock, for one), and a
+    KeyboardInterrupt raised in one of them is printed and dropped: training then ran on, or
+    ended by the signal (exit -2) instead of stopping cleanly."""
+    if threading.current_thread() is not threading.main_thread():
+        yield
+        return
+    received = []
+    previous = signal.signal(signal.SIGINT, lambda *_: received.append(True))
+    try:
+        yield
+    finally:
+        signal.signal(signal.SIGINT, previous)
+        if received:
+            raise KeyboardInterrupt
+
+
 def forked_map(function: Callable[[Item], Result], items: Sequence[Item], workers: int,
                order: Sequence[int] | None = None) -> list[Result]:
     """`[function(item) for item in items]`, computed by up to `workers` forked processes.
@@ -41,14 +63,15 @@ def forked_map(function: Callable[[Item], Result], items: Sequence[Item], worker
     handed_out = context.Value("q", 0)
     children, receivers = [], []
     try:
-        for _ in range(min(workers, len(items))):
-            receiver, sender = context.Pipe(duplex=False)
-            child = context.Process(target=_work, args=(function, items, order, handed_out, sender),
-                                    name="cognomen-worker", daemon=True)
-            child.start()
-            sender.close()
-            children.append(child)
-            receivers.append(receiver)
+        with interrupts_deferred():
+            for _ in range(min(workers, len(items))):
+                receiver, sender = context.Pipe(duplex=False)
+                child = context.Process(target=_work, args=(function, items, order, handed_out, sender),
+                                        name="cognomen-worker", daemon=True)
+                child.start()
+                sender.close()
+                children.append(child)
+                receivers.append(receiver)
         results: dict[int, Result] = {}
         running = list(receivers)
         while running:

@@ -20,7 +20,7 @@ import numpy as np
 from .corpus import Corpus, SourceFile
 from .counts import FileCounts, build_tables, count_file, evidence_vectors, forget_file
 from .flow import build_index
-from .forked import can_fork, forked_map, ignore_interrupts
+from .forked import can_fork, forked_map, ignore_interrupts, interrupts_deferred
 from .overrides import inherited_from, repository_classes
 from .reuse import ExampleStore, PreviousVectors
 from .reranking import TABLE_FEATURES, Reranker, fit_reranker, shortlist_features
@@ -163,7 +163,12 @@ class EmbeddingRun:
         self.receiver, sender = context.Pipe(duplex=False)
         self.process = context.Process(target=_embeddings_child, args=(sender, files, vocabulary, settings, previous),
                                        name="cognomen-embeddings", daemon=True)
-        self.process.start()
+        try:
+            with interrupts_deferred():
+                self.process.start()
+        except KeyboardInterrupt:
+            self.stop()
+            raise
         sender.close()
         self.progress = progress
         self.failure: str | None = None

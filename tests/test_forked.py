@@ -9,7 +9,7 @@ import time
 
 import pytest
 
-from cognomen.model.forked import can_fork, forked_map
+from cognomen.model.forked import can_fork, forked_map, interrupts_deferred
 
 pytestmark = pytest.mark.skipif(not can_fork(), reason="no fork on this platform")
 
@@ -69,3 +69,16 @@ def test_ctrl_c_ends_every_worker_and_reaches_the_parent(items, what):
     assert time.monotonic() - interrupted < 5, what
     with pytest.raises(ProcessLookupError):  # no worker outlives the parent
         os.killpg(process.pid, 0)
+
+
+def test_ctrl_c_while_forking_is_held_back_until_the_block_ends():
+    # Python's own callbacks around a fork drop a KeyboardInterrupt raised inside them.
+    before = signal.getsignal(signal.SIGINT)
+    reached = []
+    with pytest.raises(KeyboardInterrupt):
+        with interrupts_deferred():
+            os.kill(os.getpid(), signal.SIGINT)
+            time.sleep(0.05)
+            reached.append("the rest of the block")
+    assert reached == ["the rest of the block"]
+    assert signal.getsignal(signal.SIGINT) is before
