@@ -53,6 +53,22 @@ class TrainResult:
 STDLIB = "stdlib"
 STDLIB_EXCLUDES = ["test/*", "*/test/*", "*/tests/*", "*/idle_test/*", "tests/*"]
 
+# Below this many lines of Python, the standard library as background lifted "found in top 5" on
+# the pinned small packages of tests/bench/quality.py (DEVELOPERS.md, Quality): it is the default there.
+SMALL_REPOSITORY_LINES = 30_000
+
+
+def python_lines(corpus: Corpus) -> int:
+    return sum(source.lines for source in corpus.files if source.language == "python")
+
+
+def chosen_background(corpus: Corpus, asked: list[str] | None) -> list[str]:
+    """The background to learn from: what was asked for (maybe nothing), or when nothing was said,
+    the standard library for a repository with some Python but under SMALL_REPOSITORY_LINES of it."""
+    if asked is not None:
+        return list(asked)
+    return [STDLIB] if 0 < python_lines(corpus) < SMALL_REPOSITORY_LINES else []
+
 
 def load_background(names: list[str], cache: TokenCache) -> Corpus | None:
     """Other code to learn general naming from, at a lower weight: folders, or `stdlib`."""
@@ -127,6 +143,9 @@ def train_repository(path: Path, store: Path, settings: TrainSettings, policy: P
                      background: list[str] | None = None, from_scratch: bool = False) -> TrainResult:
     """Train on the code under path and promote the model if it passes the promotion check.
 
+    `background`: more code to learn general naming from (folders, or `stdlib`); None: the
+    default of `chosen_background`.
+
     Unless `from_scratch`, the embeddings continue from the current model's vectors and each
     unchanged file's examples are reused while the code has changed little (see reuse.py).
     """
@@ -162,7 +181,9 @@ def train_repository(path: Path, store: Path, settings: TrainSettings, policy: P
     if if_changed and current_manifest.get("corpus_fingerprint") == corpus_hash:
         return TrainResult(current_id, False, "the repository has not changed since the current model",
                            corpus, current_manifest, {"corpus": round(corpus_seconds, 2)}, unchanged=True)
-    extra = load_background(background or [], TokenCache(store / "cache"))
+    automatic = background is None
+    background = chosen_background(corpus, background)
+    extra = load_background(background, TokenCache(store / "cache"))
     report("training", corpus)
     # The corpus's million tokens live until the run ends and hold no reference cycles: keep
     # them out of the garbage collector's walks while the model is trained.
@@ -172,7 +193,7 @@ def train_repository(path: Path, store: Path, settings: TrainSettings, policy: P
         if from_scratch:
             shutil.rmtree(examples_directory, ignore_errors=True)
         examples_store = ExampleStore(examples_directory, examples_key(settings_dict(settings), FEATURE_NAMES + FEATURES,
-                                                                       list(background or [])),
+                                                                       background),
                                       [f.digest for f in corpus.files])
         trained = train(corpus, settings, progress=lambda *args: report("epoch", *args), background=extra,
                         accepted=repository_settings.accepted_names, previous=previous,
@@ -187,7 +208,8 @@ def train_repository(path: Path, store: Path, settings: TrainSettings, policy: P
         "source_path": str(path),
         "corpus_fingerprint": corpus_hash,
         "settings": settings_dict(settings),
-        "background": list(background or []),
+        "background": background,
+        "background_chosen": "by default" if automatic else "as asked",
         "skipped": corpus.skipped,
         "reuse": trained.reuse,
         # Every stage, and the whole run up to writing the model (the manifest is written before it ends).

@@ -85,7 +85,7 @@ def demo_copy(tmp_path_factory):
     git(target, "init", "-q", "-b", "main")
     git(target, "add", "-A")
     git(target, "commit", "-q", "-m", "Fernhill controller and dashboard")
-    run_cli("train", "--quiet", "--reproducible", "--background", "stdlib", "--flag-budget", "3", str(target),
+    run_cli("train", "--quiet", "--reproducible", "--flag-budget", "3", str(target),
             check=True)
     return target
 

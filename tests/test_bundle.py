@@ -102,7 +102,7 @@ def test_killed_training_leaves_the_previous_model(tmp_path, stdlib_corpus):
     for index in range(5):
         (repo / f"m{index}.py").write_text(f"def f(value):\n    total = value + {index}\n    return total\n")
     store = tmp_path / "store"
-    run_cli("--model-dir", str(store), "train", "--quiet", str(repo), check=True)
+    run_cli("--model-dir", str(store), "train", "--quiet", "--no-background", str(repo), check=True)
     before = bundle.current_model_id(store)
     # A long retrain (the standard library as background), killed part-way through.
     process = subprocess.Popen([sys.executable, "-m", "cognomen", "--model-dir", str(store), "train", "--quiet",

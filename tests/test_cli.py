@@ -249,11 +249,32 @@ def test_a_team_can_ask_for_flags_on_any_odd_name(workspace, tmp_path):
     assert default["settings"]["flag_contradictions_only"] is True
 
 
-def test_a_small_python_repository_hears_of_the_background(tmp_path):
+def test_a_small_python_repository_learns_from_the_standard_library_unless_told_not_to(tmp_path):
     repo = tmp_path / "repo"
     repo.mkdir()
     (repo / "meter.py").write_text("def read_meter(port):\n    reading = port.read()\n    return reading\n")
-    result = run_cli("--model-dir", str(tmp_path / "store"), "train", "--quiet", str(repo))
+    store = tmp_path / "store"
+    result = run_cli("--model-dir", str(store), "train", "--quiet", str(repo))
     assert result.returncode == 0, result.stderr
-    hint = next(line for line in result.stdout.splitlines() if line.strip().startswith("hint"))
-    assert "3 lines of Python" in hint and "--background stdlib" in hint
+    said = next(line for line in result.stdout.splitlines() if line.strip().startswith("background"))
+    assert "the standard library" in said and "3 lines of Python" in said and "--no-background" in said
+    assert json.loads(run_cli("--model-dir", str(store), "models", "--format", "json",
+                              check=True).stdout)["models"][0]["background"] == ["stdlib"]
+    alone = run_cli("--model-dir", str(tmp_path / "alone"), "train", "--quiet", "--no-background", str(repo))
+    assert alone.returncode == 0, alone.stderr
+    assert "background" not in alone.stdout
+    both = run_cli("train", "--no-background", "--background", "stdlib", str(repo))
+    assert both.returncode == 2 and "not allowed with" in both.stderr
+
+
+def test_a_repository_without_python_gets_no_background(tmp_path):
+    repo = tmp_path / "repo"
+    repo.mkdir()
+    (repo / "meter.ts").write_text("export function readMeter(port: Port) {\n  const reading = port.read();\n"
+                                   "  return reading;\n}\n")
+    store = tmp_path / "store"
+    result = run_cli("--model-dir", str(store), "train", "--quiet", str(repo))
+    assert result.returncode == 0, result.stderr
+    assert "background" not in result.stdout
+    assert json.loads(run_cli("--model-dir", str(store), "models", "--format", "json",
+                              check=True).stdout)["models"][0]["background"] == []

@@ -43,13 +43,13 @@ def test_if_changed_skips_an_unchanged_repository(repo):
 
 
 def test_promotion_check_refuses_a_weak_model_and_force_promotes_it(repo):
-    run_cli("train", "--quiet", cwd=repo, check=True)
+    run_cli("train", "--quiet", "--no-background", cwd=repo, check=True)
     good = bundle.current_model_id(repo / ".cognomen")
-    weak = run_cli("train", "--quiet", "--vocabulary-size", "12", cwd=repo)
+    weak = run_cli("train", "--quiet", "--no-background", "--vocabulary-size", "12", cwd=repo)
     assert weak.returncode == 3, weak.stdout + weak.stderr
     assert "kept the current model: found in top 5" in weak.stdout
     assert bundle.current_model_id(repo / ".cognomen") == good
-    forced = run_cli("train", "--quiet", "--vocabulary-size", "12", "--force", cwd=repo)
+    forced = run_cli("train", "--quiet", "--no-background", "--vocabulary-size", "12", "--force", cwd=repo)
     assert forced.returncode == 0
     assert bundle.current_model_id(repo / ".cognomen") != good
     back = run_cli("models", "promote", good, cwd=repo)
@@ -78,17 +78,17 @@ def test_promotion_check_rule():
 
 def test_pruning_keeps_the_newest(repo):
     for _ in range(3):
-        run_cli("train", "--quiet", "--force", "--keep", "2", cwd=repo, check=True)
+        run_cli("train", "--quiet", "--no-background", "--force", "--keep", "2", cwd=repo, check=True)
     listing = models(repo)
     assert len(listing["models"]) == 2
     assert listing["current"] == listing["models"][0]["model_id"]
 
 
 def test_kill_at_any_moment_leaves_a_loadable_current_model(repo):
-    run_cli("train", "--quiet", cwd=repo, check=True)
+    run_cli("train", "--quiet", "--no-background", cwd=repo, check=True)
     store = repo / ".cognomen"
     for delay in (0.3, 0.8, 1.2, 1.6, 2.0, 2.4, 2.8, 3.5):
-        process = subprocess.Popen([sys.executable, "-m", "cognomen", "train", "--quiet", "--force"], cwd=repo,
+        process = subprocess.Popen([sys.executable, "-m", "cognomen", "train", "--quiet", "--no-background", "--force"], cwd=repo,
                                    stdout=subprocess.DEVNULL, stderr=subprocess.DEVNULL, start_new_session=True)
         time.sleep(delay)
         try:
@@ -108,7 +108,7 @@ def test_kill_at_any_moment_leaves_a_loadable_current_model(repo):
 def test_reproducible_training_gives_the_same_model_bit_for_bit(repo, tmp_path):
     stores = [tmp_path / "first", tmp_path / "second"]
     for store in stores:
-        run_cli("--model-dir", str(store), "train", "--quiet", "--reproducible", str(repo), check=True)
+        run_cli("--model-dir", str(store), "train", "--quiet", "--no-background", "--reproducible", str(repo), check=True)
     first, second = (store / "models" / bundle.current_model_id(store) for store in stores)
     for name in ("input_vectors.npy", "output_vectors.npy", "detector.json", "context_counts.npy"):
         assert (first / name).read_bytes() == (second / name).read_bytes(), name
@@ -117,7 +117,7 @@ def test_reproducible_training_gives_the_same_model_bit_for_bit(repo, tmp_path):
 
 
 def test_the_store_keeps_itself_out_of_git(repo):
-    run_cli("train", "--quiet", cwd=repo, check=True)
+    run_cli("train", "--quiet", "--no-background", cwd=repo, check=True)
     assert (repo / ".cognomen" / "models").is_dir()
     git(repo, "add", "-A")
     # git itself decides what `add -A` picked up: nothing from the store.
@@ -128,12 +128,12 @@ def test_the_store_keeps_itself_out_of_git(repo):
 
 def test_refused_models_are_kept_apart_and_never_push_good_ones_out(repo):
     store = repo / ".cognomen"
-    run_cli("train", "--quiet", "--keep", "2", cwd=repo, check=True)
+    run_cli("train", "--quiet", "--no-background", "--keep", "2", cwd=repo, check=True)
     first = bundle.current_model_id(store)
-    run_cli("train", "--quiet", "--keep", "2", "--force", cwd=repo, check=True)
+    run_cli("train", "--quiet", "--no-background", "--keep", "2", "--force", cwd=repo, check=True)
     second = bundle.current_model_id(store)
     for _ in range(2):
-        weak = run_cli("train", "--quiet", "--keep", "2", "--vocabulary-size", "12", cwd=repo)
+        weak = run_cli("train", "--quiet", "--no-background", "--keep", "2", "--vocabulary-size", "12", cwd=repo)
         assert weak.returncode == 3, weak.stdout + weak.stderr
     listing = models(repo)
     status = {m["model_id"]: m["status"] for m in listing["models"]}
@@ -149,7 +149,7 @@ def test_refused_models_are_kept_apart_and_never_push_good_ones_out(repo):
 
 
 def test_models_shows_a_damaged_current_model_as_damaged(repo):
-    run_cli("train", "--quiet", cwd=repo, check=True)
+    run_cli("train", "--quiet", "--no-background", cwd=repo, check=True)
     store = repo / ".cognomen"
     current = bundle.current_model_id(store)
     vectors = store / "models" / current / "output_vectors.npy"

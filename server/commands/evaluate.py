@@ -8,6 +8,7 @@ from cognomen.model import bundle
 from cognomen.model.corpus import TokenCache, load_corpus
 from cognomen.model.evaluation import evaluate_corpus, format_table
 from cognomen.model.measures import public_evaluation
+from cognomen.model.pipeline import NothingToLearn, chosen_background, load_background
 from cognomen.model.training import TrainSettings
 
 from .exits import OK, UsageError
@@ -22,6 +23,11 @@ def register(commands) -> None:
     evaluate.add_argument("--held-out", type=float, default=0.15, help="share of files held out (default 0.15)")
     evaluate.add_argument("--epochs", type=int, default=5)
     evaluate.add_argument("--seed", type=int, default=1)
+    background = evaluate.add_mutually_exclusive_group()
+    background.add_argument("--background", action="append", metavar="DIR",
+                            help="more code to learn general naming from, as `train` takes it (by default, as "
+                                 "`train` chooses)")
+    background.add_argument("--no-background", action="store_true", help="learn from the repository alone")
     evaluate.set_defaults(handler=run)
 
 
@@ -33,7 +39,11 @@ def run(args) -> int:
     corpus = load_corpus(selection, TokenCache(store / "cache"))
     settings = TrainSettings(epochs=args.epochs, seed=args.seed)
     try:
-        result = evaluate_corpus(corpus, settings, held_share=args.held_out, seed=args.seed + 6)
+        background = load_background(chosen_background(corpus, [] if args.no_background else args.background),
+                                     TokenCache(store / "cache"))
+        result = evaluate_corpus(corpus, settings, held_share=args.held_out, seed=args.seed + 6, background=background)
+    except NothingToLearn as error:
+        raise UsageError(str(error)) from None
     except ValueError as error:
         raise UsageError(str(error)) from None
     if args.format == "json":

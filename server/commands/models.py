@@ -40,7 +40,7 @@ def run(args) -> int:
     if args.format == "json":
         print(json.dumps({"current": current, "models": [
             {**{k: m.get(k) for k in ("model_id", "created", "source_commit", "counts", "quality", "thresholds",
-                                      "coverage", "promotion_check")}, "status": status, "problem": problem}
+                                      "coverage", "promotion_check", "background")}, "status": status, "problem": problem}
             for m, status, problem in listed]}, indent=2))
         return OK
     print(f"{'':2}{'model':24} {'created':20} {'commit':8} {'files':>6} {'vocabulary':>10} "

@@ -5,7 +5,7 @@ from __future__ import annotations
 import time
 
 from cognomen.model.measures import figure, label
-from cognomen.model.pipeline import NothingToLearn, PromotionPolicy, train_repository
+from cognomen.model.pipeline import SMALL_REPOSITORY_LINES, NothingToLearn, PromotionPolicy, train_repository
 from cognomen.model.training import TrainSettings
 
 from .exits import INTERRUPTED, NOT_PROMOTED, OK, UsageError, say
@@ -33,9 +33,13 @@ def register(commands) -> None:
                             "when the held-out measurement is noisier, it accepts a drop within two standard "
                             "errors of that measurement instead, and says so")
     train.add_argument("--keep", type=int, default=4, help="models to keep in the store (default 4)")
-    train.add_argument("--background", action="append", default=[], metavar="DIR",
-                       help="more code to learn general naming from, at a lower weight; 'stdlib' means the "
-                            "standard library of this Python (useful for small repositories; repeatable)")
+    background = train.add_mutually_exclusive_group()
+    background.add_argument("--background", action="append", metavar="DIR",
+                            help="more code to learn general naming from, at a lower weight; 'stdlib' means the "
+                                 "standard library of this Python (repeatable). By default, a repository with "
+                                 f"under {SMALL_REPOSITORY_LINES:,} lines of Python learns from the standard library")
+    background.add_argument("--no-background", action="store_true",
+                            help="learn from the repository alone, however small")
     train.add_argument("--quiet", action="store_true", help="no progress on stderr")
     train.add_argument("--from-scratch", action="store_true",
                        help="train the embeddings afresh and score every file again, instead of continuing from the "
@@ -86,7 +90,8 @@ def run(args) -> int:
     try:
         result = train_repository(path.resolve(), store, settings, policy, keep=args.keep,
                                   if_changed=args.if_changed, report=TrainReport(args.quiet),
-                                  background=args.background, from_scratch=args.from_scratch)
+                                  background=[] if args.no_background else args.background,
+                                  from_scratch=args.from_scratch)
     except NothingToLearn as error:
         raise UsageError(str(error)) from None
     except KeyboardInterrupt:
@@ -97,11 +102,6 @@ def run(args) -> int:
         return OK
     print(summary(result, settings))
     return OK if result.promoted else NOT_PROMOTED
-
-
-# Below this many lines of Python, the standard library as background lifted "found in top 5" on the
-# pinned small packages of tests/bench/quality.py (DEVELOPERS.md, Quality).
-SMALL_REPOSITORY_LINES = 30_000
 
 
 def summary(result, settings: TrainSettings) -> str:
@@ -132,11 +132,11 @@ def summary(result, settings: TrainSettings) -> str:
             lines.append(f"  {language:10} suggestions only: {entry.get('suggestions_only', 'no threshold')}")
     if quality:
         lines.append("  held out   " + ", ".join(f"{label(k)} {figure(v)}" for k, v in quality.items()))
-    python_lines = manifest.get("languages", {}).get("python", {}).get("lines", 0)
-    if 0 < python_lines < SMALL_REPOSITORY_LINES and not manifest.get("background"):
-        lines.append(f"  hint       {python_lines:,} lines of Python is little to learn naming from: "
-                     "`--background stdlib` adds the standard library's naming at a lower weight "
-                     "(suggestions still come from your team's names)")
+    python = manifest.get("languages", {}).get("python", {}).get("lines", 0)
+    if manifest.get("background_chosen") == "by default" and manifest.get("background"):
+        lines.append(f"  background the standard library, at a lower weight: {python:,} lines of Python is little "
+                     "to learn naming from (suggestions still come from your team's names; --no-background "
+                     "learns from the repository alone)")
     reuse = manifest.get("reuse", {})
     if reuse:
         lines.append(f"  reused     embeddings {reuse.get('embeddings', '-')}; examples of "

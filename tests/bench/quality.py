@@ -23,7 +23,7 @@ from common import STDLIB, save  # noqa: E402
 from cognomen.model.corpus import Settings, TokenCache, discover, load_corpus  # noqa: E402
 from cognomen.model.evaluation import evaluate_corpus, format_table  # noqa: E402
 from cognomen.model.measures import label  # noqa: E402
-from cognomen.model.pipeline import STDLIB_EXCLUDES, load_background  # noqa: E402
+from cognomen.model.pipeline import STDLIB_EXCLUDES, chosen_background, load_background  # noqa: E402
 from cognomen.model.training import TrainSettings  # noqa: E402
 from tests.downloads import CACHE, fetch_debian, fetch_npm, fetch_pypi  # noqa: E402
 
@@ -80,21 +80,23 @@ def main() -> int:
         if args.variants:
             wanted = {v.strip() for v in args.variants.split(",")}
             variants = {k: v for k, v in variants.items() if k in wanted}
-        is_small_python = corpus.lines < 30_000 and all(f.language == "python" for f in corpus.files)
-        if args.ablate and is_small_python:
-            variants["with the standard library as background"] = {"background": True}
+        # As `cognomen train` does by default: a small Python repository learns from the standard library too.
+        default_background = chosen_background(corpus, None)
+        if args.ablate and default_background:
+            variants["without the standard library as background"] = {"background": False}
         results[corpus_label] = {}
         for variant, change in variants.items():
             background = None
-            if change.get("background"):
-                stdlib_background = stdlib_background or load_background(["stdlib"], cache)
+            if default_background and change.get("background", True):
+                stdlib_background = stdlib_background or load_background(default_background, cache)
                 background = stdlib_background
             train_settings = dataclasses.replace(TrainSettings(), **{k: v for k, v in change.items()
                                                                        if k != "background"})
             result = evaluate_corpus(corpus, train_settings, background=background)
             result["lines"] = corpus.lines
             results[corpus_label][variant] = result
-            print(f"\n## {corpus_label}: {variant} ({len(corpus.files)} files, {corpus.lines:,} lines)")
+            learned_with = " and the standard library as background" if background else ""
+            print(f"\n## {corpus_label}: {variant} ({len(corpus.files)} files, {corpus.lines:,} lines{learned_with})")
             print(format_table(result))
             model, counts = result["scorers"]["model"], result["scorers"]["context counts"]
             if counts["recovery_at_5"]:
