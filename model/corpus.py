@@ -25,9 +25,9 @@ from .tokens import Token
 
 MAX_FILE_BYTES = 1 << 20
 MAX_LINE_CHARS = 1000  # a longer line marks a minified or generated file
-# 10: Go named results are returned values; 9: keys of Go `for k := range` and JavaScript `for (k in o)`;
+# 11: "value_of" cues of Go map values; 10: Go named results are returned values; 9: keys of Go `for k := range` and JavaScript `for (k in o)`;
 # 8: "checked" cues, no value cues from `**kwargs`; 7: name-flow cues and file facts; 6: token-based scope fixes
-CACHE_FORMAT = 10
+CACHE_FORMAT = 11
 
 DEFAULT_EXCLUDES = (
     "node_modules", "vendor", "third_party", "third-party", "build", "dist", "out", "target",

@@ -18,6 +18,8 @@ Each language module reads cues per variable, "kind:word":
   type        the value's declared type is `word` ("many T" for a collection of T)
   default     a parameter's default value is `word`
   checked     the code asks what kind of value it is, with `word` (`isinstance(x, ...)`); not counted
+  value_of    the value is a map's value, looped over beside its key (Go `for name, pkg := range pkgs`);
+              not counted: it only keeps its `iterated` cue from contradicting a name
 
 The repository index (`FlowIndex`) counts, for every cue, the names the team gives there; an
 argument and the callee's parameter at the same position index each other. Cues give
@@ -187,10 +189,13 @@ def file_flow(variables, weight: float = 1.0) -> FileFlow:
     return own
 
 
+NOT_COUNTED = ("checked:", "value_of:")  # cues that only qualify others
+
+
 def index_cues(cues) -> list[str]:
-    """The cues a variable is counted under: its own (but "checked", which names no value), and
-    "returned:*" for any returned value."""
-    found = [cue for cue in cues if not cue.startswith("checked:")]
+    """The cues a variable is counted under: its own (but those in NOT_COUNTED, which name no
+    value), and "returned:*" for any returned value."""
+    found = [cue for cue in cues if not cue.startswith(NOT_COUNTED)]
     if any(cue.startswith("returned:") for cue in cues):
         found.append("returned:*")
     return found
@@ -297,7 +302,7 @@ def implied_names(cue: str, style: str) -> list[str]:
     """Names a cue's word suggests by itself, in the team's style: `frames` gives frame,
     `load_user_profile` gives user_profile and profile, `Session` gives session."""
     kind, _, word = cue.partition(":")
-    if kind in ("argument", "parameter", "key_of") or not word or word == "*":
+    if kind in ("argument", "parameter", "key_of", "value_of") or not word or word == "*":
         return []
     many = word.startswith("many ")
     parts = [p for p in split_identifier(word[5:] if many else word) if p.isalpha()]
@@ -480,10 +485,11 @@ class Flow:
         found = None
         for cue in index_cues(self.cues):
             rule = contradicting_rule(cue)
-            if rule is None or unsure and cue.startswith("iterated:"):
+            word = cue.partition(":")[2]
+            # Nor is a map's value looped over beside its key (`value_of`) known to be one of what the map's word names.
+            if rule is None or cue.startswith("iterated:") and (unsure or f"value_of:{word}" in self.cues):
                 continue
             least_places, least_share = rule
-            word = cue.partition(":")[2]
             said = [other for other, cues in self.implied.items() if cue in cues and len(other.strip("_")) >= 3]
             top, total = by_cue.get(cue, ([], 0.0))
             if not said or not top or top[0][1] < least_places or _shortens_words(name, word):

@@ -153,9 +153,13 @@ def _loop_cues(tokens: list[Token], j: int, language, variable_at, variable) -> 
     word = tokens[k].text
     # The first name of `for key := range table` and of `for (const key in table)` takes keys or indexes.
     keyed = word in language.key_loop_words
+    valued = False
     if word == ":=" and k + 1 < len(tokens) and tokens[k + 1].text == "range":
         k += 1
         keyed = j == 0 or tokens[j - 1].text != ","
+        # `for name, pkg := range pkgs`: beside a key, the value is a map's value, which is often
+        # not one of what the map's word names (`for pkgName, symbols := range refs`).
+        valued = not keyed and j >= 2 and _names_a_key(tokens[j - 2].text)
     elif word not in language.loop_words or (word == ":" and not _in_loop_header(tokens, j)):
         return []
     chain = name_chain(tokens, k + 1)
@@ -168,7 +172,13 @@ def _loop_cues(tokens: list[Token], j: int, language, variable_at, variable) -> 
         holder = variable_at.get(chain[0])
         if holder is not None:
             holder.cues = holder.cues + (f"holds:{variable.name}",)
-    return [f"iterated:{names[-1]}"]
+    return [f"iterated:{names[-1]}"] + ([f"value_of:{names[-1]}"] if valued else [])
+
+
+def _names_a_key(first: str) -> bool:
+    """Whether the first variable of `for first, value := range x` is a map's key rather than an
+    index: Go's habit is `i` (or another single letter but `k`, or `idx`) for an index, `_` for none."""
+    return first != "_" and (first == "k" or len(first) > 1) and first not in ("idx", "index", "ix")
 
 
 def _in_loop_header(tokens: list[Token], j: int) -> bool:

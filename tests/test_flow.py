@@ -136,4 +136,7 @@ def test_a_loop_variable_is_contradicted_where_the_team_and_the_collections_word
         "the keys of a mapping are named for what they identify: `key` says less than `alias`"
     assert flow_of(index, "arg", ("iterated:indexes", "checked:hasattr")).contradiction("arg") is None, \
         "an item whose kind the code tests is not yet what its collection's word says"
+    assert flow_of(index, "columns", ("iterated:indexes", "value_of:indexes")).contradiction("columns") is None, \
+        "a map's value beside its key (`for name, columns := range indexes`) may be anything the map holds"
+    assert flow_of(index, "columns", ("iterated:indexes",)).contradiction("columns") is not None
 

@@ -137,6 +137,19 @@ def test_a_lone_range_variable_takes_keys_not_elements():
     assert "key_of:rows" in found["i"] and "iterated:rows" in found["row"]
 
 
+def test_a_map_value_looped_over_beside_its_key_is_marked_as_such():
+    # `for pkgName, symbols := range refs` (golang.org/x/tools internal/imports/fix.go): beside a
+    # key, the value is the map's value; beside an index (Go's habit: `i`) or `_`, an element.
+    text = ("package p\n\nfunc f(refs map[string][]string, rows []int) int {\n\tn := 0\n"
+            "\tfor pkgName, symbols := range refs {\n\t\tn += len(pkgName) + len(symbols)\n\t}\n"
+            "\tfor k, v := range refs {\n\t\tn += len(k) + len(v)\n\t}\n"
+            "\tfor i, row := range rows {\n\t\tn += i + row\n\t}\n"
+            "\tfor _, cell := range rows {\n\t\tn += cell\n\t}\n\treturn n\n}\n")
+    found = cues(text, "p.go", "go")
+    assert {"iterated:refs", "value_of:refs"} <= found["symbols"] and "value_of:refs" in found["v"]
+    assert "iterated:rows" in found["row"] and not any(c.startswith("value_of:") for c in found["row"] | found["cell"])
+
+
 def test_a_chained_call_gives_no_cue_of_its_first_call():
     source = "package p\n\nfunc save(w io.Writer, v any) error {\n\terr := json.NewEncoder(w).Encode(v)\n" \
              "\tenc := json.NewEncoder(w)\n\t_ = enc\n\treturn err\n}\n"
