@@ -332,10 +332,6 @@ class Examples:
     file_languages: list[str] = field(default_factory=list)
     team: list[bool] = field(default_factory=list)  # False for a background corpus's files
 
-    @property
-    def lines(self) -> int:
-        return sum(self.file_lines)
-
 
 def sample_files(team: list[SourceFile], background: list[SourceFile], budget: int, seed: int) -> list[SourceFile]:
     """Files in a seeded order, per language until `budget` variables: the team's first, then a
@@ -594,7 +590,13 @@ def calibrate_model(examples: Examples, corpus: Corpus, settings: TrainSettings,
     reranker, ranks = None, np.array(examples.recovered_at)
     if settings.use_reranker:
         reranker, ranks = train_reranker(examples, folds)
-    quality = summarise(ranks)
+    # The held-out figures describe the team's own code. A background corpus teaches the fits, but
+    # measured with it, a small repository's figures were mostly the background's, and a model
+    # trained with a background could not be compared with one trained without.
+    team = np.array(examples.team, dtype=bool)
+    example_files = np.array(examples.example_files, dtype=np.int64)
+    in_team = team[np.array(examples.shortlist_files, dtype=np.int64)] if examples.shortlists else np.zeros(0, bool)
+    quality = summarise(ranks[in_team])
     labels = np.array(examples.labels)
     features = np.array(examples.features, dtype=np.float64).reshape(len(labels), len(FEATURE_NAMES))
     detector, oddness = None, features[:, 0] if len(labels) else np.zeros(0)
@@ -609,7 +611,6 @@ def calibrate_model(examples: Examples, corpus: Corpus, settings: TrainSettings,
     languages = language_lines(corpus)
     thresholds: dict[str, float] = {}
     report: dict[str, dict] = {}
-    example_files = np.array(examples.example_files, dtype=np.int64)
     usable = np.array(examples.flaggable, dtype=bool)
     every_flaggable = usable
     gated = settings.flag_contradictions_only and settings.use_flow
@@ -617,7 +618,6 @@ def calibrate_model(examples: Examples, corpus: Corpus, settings: TrainSettings,
         usable = usable & np.array(examples.contradicted, dtype=bool)
     file_lines = np.array(examples.file_lines, dtype=np.int64)
     file_languages = np.array(examples.file_languages, dtype=object)
-    team = np.array(examples.team, dtype=bool)
     flagged_clean, clean_lines, recalled, seeded = 0, 0, 0, 0
     for language, lines in sorted(languages.items()):
         entry = report[language] = {"lines": lines}
@@ -649,12 +649,14 @@ def calibrate_model(examples: Examples, corpus: Corpus, settings: TrainSettings,
         positives = in_language & (labels == 1)
         recalled += int((oddness[positives & usable] > threshold).sum())
         seeded += int(positives.sum())
-    if len(labels) and 0 < labels.sum() < labels.size:
-        quality["detection_auc"] = round(auc(oddness[labels == 1], oddness[labels == 0]), 4)
+    team_examples = team[example_files] if len(labels) else np.zeros(0, bool)
+    if (team_examples & (labels == 1)).any() and (team_examples & (labels == 0)).any():
+        quality["detection_auc"] = round(auc(oddness[team_examples & (labels == 1)],
+                                             oddness[team_examples & (labels == 0)]), 4)
     if seeded:
         quality["recall_at_threshold"] = round(recalled / seeded, 4)
         quality["false_alarms_per_kloc"] = round(flagged_clean * 1000 / max(clean_lines, 1), 3)
-    quality["calibration_lines"] = examples.lines
+    quality["calibration_lines"] = int(file_lines[team].sum()) if len(file_lines) else 0
     if kept:
         quality["kept_names"] = len(kept)
     return Calibration(detector, reranker, thresholds, quality, report)

@@ -159,3 +159,16 @@ def test_models_shows_a_damaged_current_model_as_damaged(repo):
     text = run_cli("models", cwd=repo, check=True).stdout
     assert text.splitlines()[1].rstrip().endswith("damaged")
     assert f"note: {current} is damaged and will not load" in text
+
+
+def test_a_model_learned_with_the_background_is_measured_on_the_teams_code_as_one_without(repo):
+    # The held-out figures describe the team's files only, so adding the standard library as
+    # background (the default for a small Python repository) is judged on the same ground.
+    run_cli("train", "--quiet", "--no-background", cwd=repo, check=True)
+    alone = models(repo)["models"][0]
+    result = run_cli("train", "--quiet", cwd=repo)
+    assert result.returncode == 0 and "promoted" in result.stdout.splitlines()[0], result.stdout
+    with_background = models(repo)["models"][0]
+    assert with_background["background"] == ["stdlib"] and alone["background"] == []
+    for key in ("seeded_misnames", "lines_scored_as_if_unseen"):
+        assert with_background["quality"][key] == alone["quality"][key], key
