@@ -35,7 +35,8 @@ def interrupts_deferred():
     Python runs callbacks of its own around a fork (the logging module's lock, for one), and a
     KeyboardInterrupt raised in one of them is printed and dropped: training then ran on, or
     ended by the signal (exit -2) instead of stopping cleanly."""
-    if threading.current_thread() is not threading.main_thread():
+    if threading.current_thread() is not threading.main_thread() or \
+            signal.getsignal(signal.SIGINT) is signal.SIG_IGN:  # started with Ctrl-C ignored (`nohup ... &`)
         yield
         return
     received = []

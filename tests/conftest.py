@@ -4,6 +4,7 @@ from __future__ import annotations
 
 import ast
 import shutil
+import signal
 import subprocess
 import sys
 import sysconfig
@@ -65,6 +66,12 @@ def any_odd_scorer(stdlib_scorer):
     stdlib_scorer.tables.flags_need_contradiction = False
     yield stdlib_scorer
     stdlib_scorer.tables.flags_need_contradiction = True
+
+
+def ctrl_c_as_in_a_terminal() -> None:
+    """A child's Ctrl-C as a terminal leaves it (a `preexec_fn`): a test run started in the
+    background (`nohup make test &`) would otherwise pass on an ignored SIGINT."""
+    signal.signal(signal.SIGINT, signal.SIG_DFL)
 
 
 def run_cli(*args: str, cwd: Path | None = None, check: bool = False, input_text: str | None = None,

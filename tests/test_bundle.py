@@ -17,7 +17,7 @@ from cognomen.model.corpus import TokenCache, discover, load_corpus
 from cognomen.model.persistence import load_scorer, save
 from cognomen.model.training import TrainSettings, train
 
-from .conftest import DEMO, run_cli
+from .conftest import DEMO, ctrl_c_as_in_a_terminal, run_cli
 
 
 @pytest.fixture(scope="module")
@@ -124,7 +124,8 @@ def test_interrupt_is_a_clean_stop(tmp_path):
     store = tmp_path / "store"
     process = subprocess.Popen([sys.executable, "-m", "cognomen", "--model-dir", str(store), "train",
                                 "--background", "stdlib", "--epochs", "20", str(repo)], start_new_session=True,
-                               stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True)
+                               preexec_fn=ctrl_c_as_in_a_terminal, stdout=subprocess.PIPE, stderr=subprocess.PIPE,
+                               text=True)
     time.sleep(5)
     os.killpg(process.pid, signal.SIGINT)  # as Ctrl-C in a terminal: to every process of the group
     out, err = process.communicate(timeout=120)

@@ -11,6 +11,8 @@ import pytest
 
 from cognomen.model.forked import can_fork, forked_map, interrupts_deferred
 
+from .conftest import ctrl_c_as_in_a_terminal
+
 pytestmark = pytest.mark.skipif(not can_fork(), reason="no fork on this platform")
 
 
@@ -59,7 +61,8 @@ _INTERRUPTED = textwrap.dedent("""
 def test_ctrl_c_ends_every_worker_and_reaches_the_parent(items, what):
     # A terminal sends Ctrl-C to every process of the foreground group: the same here.
     process = subprocess.Popen([sys.executable, "-c", _INTERRUPTED.format(items=items)], start_new_session=True,
-                               stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True)
+                               preexec_fn=ctrl_c_as_in_a_terminal, stdout=subprocess.PIPE, stderr=subprocess.PIPE,
+                               text=True)
     assert process.stdout.readline() == "started\n"
     time.sleep(1.5)
     interrupted = time.monotonic()
@@ -73,12 +76,19 @@ def test_ctrl_c_ends_every_worker_and_reaches_the_parent(items, what):
 
 def test_ctrl_c_while_forking_is_held_back_until_the_block_ends():
     # Python's own callbacks around a fork drop a KeyboardInterrupt raised inside them.
-    before = signal.getsignal(signal.SIGINT)
-    reached = []
-    with pytest.raises(KeyboardInterrupt):
+    started_with = signal.signal(signal.SIGINT, signal.default_int_handler)  # as Python sets it up in a terminal
+    try:
+        reached = []
+        with pytest.raises(KeyboardInterrupt):
+            with interrupts_deferred():
+                os.kill(os.getpid(), signal.SIGINT)
+                time.sleep(0.05)
+                reached.append("the rest of the block")
+        assert reached == ["the rest of the block"]
+        assert signal.getsignal(signal.SIGINT) is signal.default_int_handler
+        signal.signal(signal.SIGINT, signal.SIG_IGN)  # started with Ctrl-C ignored: it stays ignored
         with interrupts_deferred():
             os.kill(os.getpid(), signal.SIGINT)
             time.sleep(0.05)
-            reached.append("the rest of the block")
-    assert reached == ["the rest of the block"]
-    assert signal.getsignal(signal.SIGINT) is before
+    finally:
+        signal.signal(signal.SIGINT, started_with)
