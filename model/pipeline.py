@@ -22,7 +22,7 @@ from .measures import label, public
 from .reranking import FEATURES
 from .reuse import ExampleStore, PreviousVectors, examples_key
 from .scoring import FEATURE_NAMES
-from .training import TrainSettings, settings_dict, train
+from .training import TrainSettings, language_lines, settings_dict, train
 from .vocab_report import model_coverage
 
 
@@ -58,16 +58,12 @@ STDLIB_EXCLUDES = ["test/*", "*/test/*", "*/tests/*", "*/idle_test/*", "tests/*"
 SMALL_REPOSITORY_LINES = 30_000
 
 
-def python_lines(corpus: Corpus) -> int:
-    return sum(source.lines for source in corpus.files if source.language == "python")
-
-
 def chosen_background(corpus: Corpus, asked: list[str] | None) -> list[str]:
     """The background to learn from: what was asked for (maybe nothing), or when nothing was said,
     the standard library for a repository with some Python but under SMALL_REPOSITORY_LINES of it."""
     if asked is not None:
         return list(asked)
-    return [STDLIB] if 0 < python_lines(corpus) < SMALL_REPOSITORY_LINES else []
+    return [STDLIB] if 0 < language_lines(corpus).get("python", 0) < SMALL_REPOSITORY_LINES else []
 
 
 def load_background(names: list[str], cache: TokenCache) -> Corpus | None:
